@@ -82,11 +82,15 @@ run: setup
 	echo; echo "Headless results are in $(CURDIR)/$(OUT)/:"; \
 	ls -l $(OUT) 2>/dev/null | tail -n +2 || true
 
+# pytest exits 5 when it collected no test: that is a failure here, never a silent pass.
+PYTEST_NO_TESTS_IS_FAILURE = rc=$$?; if [ $$rc = 5 ]; then \
+	  echo "pytest collected no tests: failing"; exit 1; fi; exit $$rc
+
 test: setup
-	$(BIN)/python -m pytest
+	@$(BIN)/python -m pytest; $(PYTEST_NO_TESTS_IS_FAILURE)
 
 test-all: setup
-	$(BIN)/python -m pytest -m 'slow or not slow'
+	@$(BIN)/python -m pytest -m 'slow or not slow'; $(PYTEST_NO_TESTS_IS_FAILURE)
 
 bench: setup
 	$(BIN)/python -m solver.bench
