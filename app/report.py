@@ -1,0 +1,234 @@
+"""The report: one figure (page 1) and the tables (page 2), written headless.
+
+:func:`render_figure` draws the cross-section with the overlays the caller asks for
+(:class:`app.plotting.ReportOverlays`, the same switches as the canvas), a colour bar
+with units, the title, the layout file name and the date, a small table of per-part
+peak surface field, limit and margin, a legend that also reads in black and white,
+and the high-voltage caution.  :func:`write_report` picks the format from the file
+extension: ``.pdf`` gets both pages, ``.png`` and ``.svg`` the figure only.
+
+matplotlib ``Figure`` objects only (no pyplot, no global backend); files are written to
+a temporary name beside the target and renamed into place, so a failed export never
+leaves a half-written file or destroys an older one.
+"""
+
+from __future__ import annotations
+
+import os
+import tempfile
+import textwrap
+from datetime import datetime, timezone
+from pathlib import Path
+
+from matplotlib.figure import Figure
+from matplotlib.lines import Line2D
+from matplotlib.patches import Patch
+
+from solver.solution import Solution
+
+from .caution import CAUTION
+from .plotting import (
+    EQUIPOTENTIAL_COLOUR,
+    FIELD_LINE_COLOUR,
+    FIELD_LINE_EDGE,
+    HOT_SPOT_COLOUR,
+    PART_STYLES,
+    PEAK_COLOUR,
+    ReportOverlays,
+    draw_solution,
+    peak_location,
+)
+from .report_tables import fmt_num, render_tables_page, summary_rows
+
+__all__ = ["FIGURE_DPI", "FIGURE_SIZE_IN", "REPORT_FORMATS", "ReportError", "ReportOverlays",
+           "render_figure", "write_report"]
+
+FIGURE_SIZE_IN = (11.69, 8.27)
+"""A4 landscape, inches."""
+
+FIGURE_DPI = 150
+"""Pixels per inch of a PNG report: 1754 x 1240 pixels."""
+
+REPORT_FORMATS = (".pdf", ".png", ".svg")
+
+
+class ReportError(ValueError):
+    """A report that cannot be written; the message says why (format, folder...)."""
+
+
+def render_figure(solution: Solution, overlays: ReportOverlays | None = None,
+                  source_name: str = "", when: datetime | None = None) -> Figure:
+    """Page 1: the cross-section with its overlays, colour bar, summary and caution."""
+    overlays = overlays or ReportOverlays()
+    when = when or datetime.now(timezone.utc)
+    fig = Figure(figsize=FIGURE_SIZE_IN)
+    ax = fig.add_axes((0.06, 0.13, 0.56, 0.76))
+    mappable, notes = draw_solution(ax, solution, overlays)
+    if mappable is not None:
+        label = ("field strength |E| (kV/mm)" if overlays.field_strength_map
+                 else "potential (kV)")
+        cbar = fig.colorbar(mappable, ax=ax, fraction=0.045, pad=0.02, shrink=0.85)
+        cbar.set_label(label)
+    _header(fig, solution, source_name, when)
+    table_bottom = _summary(fig, solution)
+    _legend(fig, solution, overlays, table_bottom - 0.04)
+    _footer(fig, notes + list(solution.notes))
+    return fig
+
+
+def _header(fig: Figure, solution: Solution, source_name: str, when: datetime) -> None:
+    title = solution.layout.title or source_name or "Stresslens layout"
+    fig.text(0.06, 0.955, title, fontsize=15, weight="bold", va="top")
+    sub = " · ".join(s for s in (source_name, f"{solution.layout.symmetry} cross-section",
+                                 f"solved {when:%Y-%m-%d %H:%M} UTC") if s)
+    fig.text(0.06, 0.918, sub, fontsize=9, color="#555555", va="top")
+
+
+def _summary(fig: Figure, solution: Solution) -> float:
+    """The peak in large type, then the per-part table (kV/mm, %); returns its bottom."""
+    x, y = 0.70, 0.86
+    peak = peak_location(solution)
+    fig.text(x, y, "Peak surface field", fontsize=10, color="#555555", va="top")
+    value = f"{fmt_num(solution.peak_field_kV_per_mm)} kV/mm"
+    err = solution.estimated_error_percent
+    if err is not None:
+        value += f"  ± {err:.2g} %"
+    fig.text(x, y - 0.028, value, fontsize=17, weight="bold", va="top")
+    if peak is not None:
+        fig.text(x, y - 0.075, f"on {peak[0]} at ({peak[1][0]:.4g}, {peak[1][1]:.4g}) mm",
+                 fontsize=9, va="top")
+    n_hot = len(solution.hot_spots)
+    verdict = (f"{n_hot} hot spot{'s' * (n_hot != 1)} above the limit" if n_hot
+               else "below the limit everywhere")
+    fig.text(x, y - 0.102, verdict, fontsize=9, va="top", weight="bold",
+             color=HOT_SPOT_COLOUR if n_hot else "#2d6a2d")
+    return _summary_table(fig, solution, x, y - 0.15)
+
+
+def _summary_table(fig: Figure, solution: Solution, x: float, y: float) -> float:
+    cols = [(x, "left", "\npart"), (x + 0.15, "right", "peak\nkV/mm"),
+            (x + 0.215, "right", "limit\nkV/mm"), (x + 0.275, "right", "margin\n%")]
+    rows = summary_rows(solution)[:14]
+    for k, row in enumerate([[c[2] for c in cols], *rows]):
+        yy = y - 0.026 * k - 0.022 * (k > 0)
+        for (cx, ha, _), cell in zip(cols, row, strict=False):
+            weight = "bold" if k == 0 else "normal"
+            colour = HOT_SPOT_COLOUR if k and cell.startswith("-") and cx == cols[3][0] \
+                else "#1b1b1b"
+            fig.text(cx, yy, cell[:18], fontsize=8.5, ha=ha, va="top", weight=weight,
+                     color=colour)
+        if k == 0:
+            fig.add_artist(Line2D([x, x + 0.275], [yy - 0.043] * 2, transform=fig.transFigure,
+                                  color="#555555", lw=0.6))
+    if len(solution.parts) > len(rows):
+        fig.text(x, y - 0.026 * (len(rows) + 1) - 0.022,
+                 f"… {len(solution.parts) - len(rows)} more "
+                 "parts on page 2", fontsize=8, va="top")
+        return y - 0.026 * (len(rows) + 2) - 0.022
+    return y - 0.026 * (len(rows) + 1) - 0.022
+
+
+def _legend(fig: Figure, solution: Solution, overlays: ReportOverlays, top: float) -> None:
+    """Symbols: one swatch per kind present, then the line and marker overlays."""
+    handles: list[object] = []
+    for kind in ("electrode", "floating", "dielectric"):
+        if any(p.kind == kind for p in solution.layout.parts):
+            s = PART_STYLES[kind]
+            handles.append(Patch(facecolor=s.face, edgecolor=s.edge, hatch=s.hatch,
+                                 linestyle=s.linestyle, alpha=max(s.alpha, 0.7),
+                                 label=f"{kind} {'conductor' if kind == 'floating' else ''}"
+                                 .strip()))
+    if overlays.equipotentials:
+        handles.append(Line2D([], [], color=EQUIPOTENTIAL_COLOUR, lw=0.8,
+                              label="equipotential (kV)"))
+    if overlays.field_lines:
+        handles.append(Line2D([], [], color=FIELD_LINE_COLOUR, lw=1.4, label="field line",
+                              path_effects=_outlined()))
+    if overlays.hot_spots:
+        handles.append(Line2D([], [], ls="none", marker="^", ms=8, mfc=HOT_SPOT_COLOUR,
+                              mec="white", label="hot spot: field > limit"))
+        handles.append(Line2D([], [], ls="none", marker="*", ms=11, mfc="white", mec=PEAK_COLOUR,
+                              label="peak surface field"))
+    fig.legend(handles=handles, loc="upper left", bbox_to_anchor=(0.695, top), fontsize=8.5,
+               frameon=False, handlelength=2.4, borderaxespad=0.0)
+
+
+def _outlined() -> list[object]:
+    from matplotlib.patheffects import Normal, Stroke
+
+    return [Stroke(linewidth=2.4, foreground=FIELD_LINE_EDGE), Normal()]
+
+
+def _footer(fig: Figure, notes: list[str]) -> None:
+    text = "\n".join(textwrap.wrap(CAUTION, 150))
+    fig.text(0.06, 0.022, text, fontsize=8, va="bottom", ha="left",
+             bbox={"boxstyle": "round,pad=0.45", "fc": "#fff6d6", "ec": "#8a6d00", "lw": 0.8})
+    if notes:
+        fig.text(0.06, 0.075, "Note: " + "; ".join(notes), fontsize=7.5, va="bottom",
+                 color="#555555")
+
+
+def write_report(solution: Solution, path: str | Path, overlays: ReportOverlays | None = None,
+                 source_name: str = "", when: datetime | None = None) -> Path:
+    """Write the report; the format follows the extension (.pdf, .png or .svg).
+
+    PDF: page 1 the figure (A4 landscape), page 2 the tables (A4 portrait).  PNG: the
+    figure at :data:`FIGURE_DPI`.  SVG: the figure, text kept as text.  Raises
+    :class:`ReportError` for another extension or a folder that cannot be written.
+    """
+    target = Path(path)
+    ext = target.suffix.lower()
+    if ext not in REPORT_FORMATS:
+        raise ReportError(f"{target.name}: unknown report format '{ext or '(none)'}'; "
+                          f"use one of {', '.join(REPORT_FORMATS)}")
+    if not target.parent.is_dir():
+        raise ReportError(f"{target.parent}: no such folder")
+    when = when or datetime.now(timezone.utc)
+    fig = render_figure(solution, overlays, source_name or target.name, when)
+    _atomic_write(target, lambda f: _save(f, ext, fig, solution, source_name, when))
+    return target
+
+
+def _save(f: object, ext: str, fig: Figure, solution: Solution, source_name: str,
+          when: datetime) -> None:
+    meta = {"Title": solution.layout.title or source_name, "Creator": "Stresslens"}
+    if ext == ".png":
+        fig.savefig(f, format="png", dpi=FIGURE_DPI, metadata={"Title": meta["Title"],
+                                                               "Description": CAUTION})
+    elif ext == ".svg":
+        import matplotlib
+
+        with matplotlib.rc_context({"svg.fonttype": "none"}):
+            fig.savefig(f, format="svg", metadata={"Title": meta["Title"],
+                                                   "Description": CAUTION})
+    else:
+        from matplotlib.backends.backend_pdf import PdfPages
+
+        with PdfPages(f, metadata={**meta, "Subject": CAUTION}) as pdf:
+            pdf.savefig(fig)
+            pdf.savefig(render_tables_page(solution, source_name, when))
+
+
+def _atomic_write(target: Path, write: object) -> None:
+    """Write through a temporary file in the same folder, then rename over the target."""
+    try:
+        fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", dir=target.parent)
+    except OSError as exc:
+        raise ReportError(f"{target.parent}: cannot write here ({exc.strerror})") from None
+    try:
+        with os.fdopen(fd, "wb") as f:
+            write(f)  # type: ignore[operator]
+        os.chmod(tmp, 0o666 & ~_umask())
+        os.replace(tmp, target)
+    except OSError as exc:
+        raise ReportError(f"{target}: cannot write ({exc.strerror})") from None
+    finally:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+
+
+def _umask() -> int:
+    """The process umask (read by setting and restoring it)."""
+    mask = os.umask(0)
+    os.umask(mask)
+    return mask

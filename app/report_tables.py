@@ -1,0 +1,295 @@
+"""The numbers of a report as rows of text, and page 2 of the PDF that prints them.
+
+Every row builder takes a :class:`solver.solution.Solution` and returns strings, so the
+tests can check the printed numbers against the solve.  Units: field kV/mm, potential
+kV, coordinates mm, charge and capacitance with an SI prefix on C/m and F/m (planar,
+per metre of length) or C and F (axisymmetric, the whole body of revolution).
+"""
+
+from __future__ import annotations
+
+import math
+import textwrap
+from collections.abc import Sequence
+from dataclasses import dataclass
+from datetime import datetime
+
+import numpy as np
+from matplotlib.figure import Figure
+
+from solver.layout import FixedLimit, Layout
+from solver.solution import PartResult, Solution
+
+from .caution import CAUTION
+
+A4_PORTRAIT_IN = (8.27, 11.69)
+MAX_HOT_SPOT_ROWS = 18
+MAX_PART_ROWS = 24
+MAX_MATRIX_CONDUCTORS = 6
+
+
+def fmt_num(v: float | None, digits: int = 4) -> str:
+    """A number to ``digits`` significant figures; an en dash for missing values."""
+    if v is None or not math.isfinite(v):
+        return "–"
+    return f"{v:.{digits}g}"
+
+
+def fmt_point(p: tuple[float, float] | None) -> str:
+    """A point in mm as '(x, y)'."""
+    if p is None:
+        return "–"
+    return f"({p[0]:.4g}, {p[1]:.4g})"
+
+
+def fmt_si(v: float | None, unit: str) -> str:
+    """A value with an SI prefix chosen so the mantissa lies in [1, 1000)."""
+    if v is None or not math.isfinite(v):
+        return "–"
+    if v == 0:
+        return f"0 {unit}"
+    prefixes = [(1e-15, "f"), (1e-12, "p"), (1e-9, "n"), (1e-6, "µ"), (1e-3, "m"), (1.0, "")]
+    scale, pre = prefixes[0]
+    for s, p in prefixes:
+        if abs(v) >= s * 0.9995:
+            scale, pre = s, p
+    return f"{v / scale:.4g} {pre}{unit}"
+
+
+def charge_unit(layout: Layout) -> str:
+    """C/m for planar (per metre of length), C for axisymmetric layouts."""
+    return "C/m" if layout.symmetry == "planar" else "C"
+
+
+def capacitance_unit(layout: Layout) -> str:
+    """F/m for planar, F for axisymmetric layouts."""
+    return "F/m" if layout.symmetry == "planar" else "F"
+
+
+def surface_peak(p: PartResult) -> float:
+    """The field the limit applies to: the surface field in the medium next to the part.
+
+    For conductors that is ``peak_field_kV_per_mm``; for dielectrics the gas-side
+    ``surface_field_kV_per_mm`` (the field inside the body is a different number).
+    """
+    if p.kind == "dielectric" and p.surface_field_kV_per_mm is not None:
+        return p.surface_field_kV_per_mm
+    return p.peak_field_kV_per_mm
+
+
+def summary_rows(solution: Solution) -> list[list[str]]:
+    """Page-1 table: part, peak surface field, limit at the peak, margin (%)."""
+    return [[p.name, fmt_num(surface_peak(p)), fmt_num(p.limit_at_peak_kV_per_mm),
+             f"{p.margin_percent:+.1f}" if math.isfinite(p.margin_percent) else "–"]
+            for p in solution.parts]
+
+
+def _peak_with_error(p: PartResult) -> str:
+    text = fmt_num(p.peak_field_kV_per_mm)
+    if p.sharp_corner:
+        return text + " (sharp corner)"
+    if p.error_percent is not None and math.isfinite(p.error_percent):
+        return f"{text} ± {p.error_percent:.2g} %"
+    return text
+
+
+def part_rows(solution: Solution) -> list[list[str]]:
+    """Page-2 parts table, one row per part (dielectrics: gas-side surface field too)."""
+    rows = []
+    for p in solution.parts[:MAX_PART_ROWS]:
+        volts = "–" if p.volts is None else fmt_num(p.volts / 1e3)
+        if p.kind == "floating" and p.volts is not None:
+            volts += " (solved)"
+        where = fmt_point(p.peak_at_mm)
+        if p.kind == "dielectric":
+            where += f"; surface {fmt_num(p.surface_field_kV_per_mm)} at " \
+                     f"{fmt_point(p.surface_peak_at_mm)}"
+        rows.append([p.name, p.kind, volts, _peak_with_error(p), where,
+                     fmt_num(p.limit_at_peak_kV_per_mm),
+                     f"{p.margin_percent:+.1f}" if math.isfinite(p.margin_percent) else "–"])
+    return rows
+
+
+def hot_spot_rows(solution: Solution) -> tuple[list[list[str]], int]:
+    """Hot spots, strongest first, at most :data:`MAX_HOT_SPOT_ROWS`; and how many more."""
+    spots = sorted(solution.hot_spots, key=lambda h: -h.field_kV_per_mm)
+    rows = [[h.part, fmt_point(h.at_mm), fmt_num(h.field_kV_per_mm),
+             fmt_num(h.limit_kV_per_mm), "", f"{h.s_from_mm:.4g} – {h.s_to_mm:.4g}"]
+            for h in spots[:MAX_HOT_SPOT_ROWS]]
+    return rows, max(len(spots) - MAX_HOT_SPOT_ROWS, 0)
+
+
+def charge_rows(solution: Solution) -> list[list[str]]:
+    """Charge on each conductor, with its SI-prefixed unit."""
+    unit = charge_unit(solution.layout)
+    return [[p.name, fmt_si(p.charge, unit)] for p in solution.parts
+            if p.kind != "dielectric"]
+
+
+def capacitance_rows(solution: Solution) -> tuple[list[str], list[list[str]]]:
+    """Maxwell capacitance matrix (header, rows); only the diagonal for many conductors."""
+    names = list(solution.conductor_names)
+    c = np.asarray(solution.capacitance, float)
+    unit = capacitance_unit(solution.layout)
+    if c.size == 0:
+        return [], []
+    if len(names) > MAX_MATRIX_CONDUCTORS:
+        return ["conductor", "C_ii"], [[n, fmt_si(c[i, i], unit)] for i, n in enumerate(names)]
+    return ["", *names], [[n, *(fmt_si(c[i, j], unit) for j in range(len(names)))]
+                          for i, n in enumerate(names)]
+
+
+def describe_boundary(layout: Layout) -> str:
+    """The outer boundary in words, with the box corners in mm."""
+    b = layout.boundary
+    if b.type == "open":
+        return "open (field decays far away)"
+    box = f"box {fmt_point(b.min)} to {fmt_point(b.max)} mm"
+    if b.volts is None:
+        return f"{box}, insulating walls (symmetry planes)"
+    return f"{box}, walls at {fmt_num(b.volts / 1e3)} kV"
+
+
+def describe_limit(layout: Layout) -> str:
+    """The field limit in words."""
+    lim = layout.limit
+    if isinstance(lim, FixedLimit):
+        return f"fixed, {fmt_num(lim.kV_per_mm)} kV/mm"
+    return (f"Peek's law in air, {fmt_num(lim.pressure_kPa)} kPa, {fmt_num(lim.temperature_C)} "
+            f"°C, surface factor {fmt_num(lim.surface_factor)}")
+
+
+def describe_resolution(layout: Layout) -> str:
+    """The resolution setting: a name or the finest spacing in mm."""
+    r = layout.resolution
+    return r if isinstance(r, str) else f"finest spacing {fmt_num(r)} mm"
+
+
+def settings_rows(solution: Solution) -> list[list[str]]:
+    """Symmetry, boundary, limit and resolution."""
+    lay = solution.layout
+    return [["symmetry", lay.symmetry], ["boundary", describe_boundary(lay)],
+            ["field limit", describe_limit(lay)], ["resolution", describe_resolution(lay)]]
+
+
+def statistics_rows(solution: Solution) -> list[list[str]]:
+    """Unknowns, time, convergence, residual and the estimated error of the peak."""
+    err = solution.estimated_error_percent
+    return [["unknowns", f"{solution.unknowns:,}"],
+            ["solve time", f"{solution.solve_seconds:.3g} s"],
+            ["converged", "yes" if solution.converged else "NO: results unreliable"],
+            ["relative residual", f"{solution.residual:.2g}"],
+            ["peak surface field", f"{fmt_num(solution.peak_field_kV_per_mm)} kV/mm"],
+            ["estimated error of the peak", "–" if err is None else f"{err:.2g} %"]]
+
+
+@dataclass
+class _Cursor:
+    """Writes text rows down a figure, top to bottom, in figure coordinates."""
+
+    fig: Figure
+    y: float = 0.95
+    left: float = 0.07
+    right: float = 0.93
+
+    def _dy(self, points: float) -> float:
+        return points / (self.fig.get_figheight() * 72.0)
+
+    def heading(self, text: str) -> None:
+        self.y -= self._dy(10)
+        self.fig.text(self.left, self.y, text, fontsize=11, weight="bold", va="top")
+        self.y -= self._dy(17)
+
+    def line(self, text: str, size: float = 8.5, colour: str = "#1b1b1b") -> None:
+        self.fig.text(self.left, self.y, text, fontsize=size, va="top", color=colour)
+        self.y -= self._dy(size * 1.5)
+
+    def table(self, header: Sequence[str], rows: Sequence[Sequence[str]],
+              widths: Sequence[float], numeric: Sequence[bool], span: float = 1.0) -> None:
+        """Columns at relative ``widths`` over ``span`` of the text width; numbers right."""
+        total = sum(widths)
+        edges = np.concatenate([[0.0], np.cumsum(widths)]) / total
+        right = self.left + span * (self.right - self.left)
+        xs = self.left + edges * (right - self.left)
+        for k, row in enumerate([list(header), *map(list, rows)]):
+            for j, cell in enumerate(row):
+                x, ha = (xs[j + 1] - 0.008, "right") if numeric[j] else (xs[j], "left")
+                self.fig.text(x, self.y, cell, fontsize=8, va="top", ha=ha,
+                              weight="bold" if k == 0 else "normal")
+            self.y -= self._dy(12)
+            if k == 0:
+                self.fig.add_artist(_rule(self.fig, self.y + self._dy(2), self.left, right))
+
+
+def _rule(fig: Figure, y: float, x0: float, x1: float) -> object:
+    from matplotlib.lines import Line2D
+
+    return Line2D([x0, x1], [y, y], transform=fig.transFigure, color="#555555", lw=0.6)
+
+
+def render_tables_page(solution: Solution, source_name: str, when: datetime) -> Figure:
+    """Page 2: parts, hot spots, charges and capacitances, settings, solver statistics."""
+    fig = Figure(figsize=A4_PORTRAIT_IN)
+    cur = _Cursor(fig)
+    title = solution.layout.title or source_name
+    fig.text(cur.left, cur.y, f"{title}: numbers", fontsize=13, weight="bold", va="top")
+    cur.y -= cur._dy(18)
+    cur.line(f"{source_name} · {solution.layout.symmetry} · {when:%Y-%m-%d %H:%M} UTC",
+             colour="#555555")
+    cur.heading("Parts (field kV/mm, potential kV, coordinates mm)")
+    cur.table(["part", "kind", "potential kV", "peak field kV/mm", "peak at (mm)",
+               "limit kV/mm", "margin %"], part_rows(solution),
+              [1.3, 0.9, 1.0, 1.6, 2.5, 0.95, 0.85],
+              [False, False, True, True, False, True, True])
+    if len(solution.parts) > MAX_PART_ROWS:
+        cur.line(f"… and {len(solution.parts) - MAX_PART_ROWS} more parts (all are in "
+                 f"'stresslens solve --json').", size=8)
+    cur.line("Dielectrics: peak field inside the body; 'surface' is the gas-side field on "
+             "the outline, the one the limit applies to.", size=7.5, colour="#555555")
+    _hot_spot_section(cur, solution)
+    _charge_section(cur, solution)
+    cur.heading("Settings")
+    cur.table(["setting", "value"], settings_rows(solution), [1.3, 6.0], [False, False],
+              span=0.85)
+    cur.heading("Solver statistics")
+    cur.table(["quantity", "value"], statistics_rows(solution), [1.8, 2.5], [False, False],
+              span=0.5)
+    for note in solution.notes:
+        cur.line(f"Note: {note}", size=8)
+    _caution_block(fig, cur.left, cur.right)
+    return fig
+
+
+def _hot_spot_section(cur: _Cursor, solution: Solution) -> None:
+    cur.heading("Hot spots (surface field above the limit)")
+    rows, more = hot_spot_rows(solution)
+    if not rows:
+        cur.line("None: the surface field stays below the limit on every outline.")
+        return
+    cur.table(["part", "at (mm)", "field kV/mm", "limit kV/mm", "", "arc length (mm)"], rows,
+              [1.4, 1.4, 1.0, 1.0, 0.3, 1.3], [False, False, True, True, False, False],
+              span=0.85)
+    if more:
+        cur.line(f"… and {more} weaker hot spots (all are in the surface-field CSV export).")
+
+
+def _charge_section(cur: _Cursor, solution: Solution) -> None:
+    per = " per metre of length" if solution.layout.symmetry == "planar" else ""
+    cur.heading(f"Charges and capacitances{per}")
+    charges = charge_rows(solution)
+    if charges:
+        cur.table(["conductor", "charge"], charges, [1.6, 1.4], [False, True], span=0.4)
+    header, rows = capacitance_rows(solution)
+    if rows:
+        cur.y -= cur._dy(4)
+        cur.line("Maxwell capacitance matrix (row: charge on it per volt on the column's "
+                 "conductor):", size=8)
+        n = len(header)
+        cur.table(header, rows, [1.6] + [1.2] * (n - 1), [False] + [True] * (n - 1),
+                  span=min(1.0, 0.2 + 0.15 * (n - 1)))
+
+
+def _caution_block(fig: Figure, left: float, right: float) -> None:
+    text = "\n".join(textwrap.wrap(CAUTION, 110))
+    fig.text(left, 0.035, text, fontsize=8, va="bottom", ha="left", color="#1b1b1b",
+             bbox={"boxstyle": "round,pad=0.5", "fc": "#fff6d6", "ec": "#8a6d00", "lw": 0.8})
