@@ -17,6 +17,7 @@ from dataclasses import dataclass
 
 import numpy as np
 import shapely
+import shapely.ops
 from shapely.geometry import LineString
 from shapely.geometry import Polygon as ShPolygon
 from shapely.validation import explain_validity
@@ -27,6 +28,8 @@ ARC_STEP_RAD = 2.0 * math.pi / 560
 """Largest turning angle between neighbouring vertices on a curved outline, radians."""
 
 _GEOM_TOL_MM = 1e-9
+_SAGITTA_REL = 1.0 - math.cos(ARC_STEP_RAD / 2)
+"""Largest gap between a discretised arc and the true arc, per mm of arc radius."""
 
 
 @dataclass(frozen=True)
@@ -72,16 +75,24 @@ def shape_polygon(shape: Shape) -> ShPolygon:
 
 def _ellipse_ring(center: tuple[float, float], radii: tuple[float, float],
                   angle_deg: float) -> np.ndarray:
-    """Ellipse vertices spaced uniformly in the normal's direction angle.
+    """Ellipse vertices: the union of two uniform spacings of the parameter :math:`t`.
 
-    With the normal angle :math:`\\beta` uniform, the parameter is
-    :math:`t = \\operatorname{atan2}(b\\sin\\beta, a\\cos\\beta)`, so every chord turns by
-    the same angle however elongated the ellipse.
+    One set is uniform in the normal's direction angle :math:`\\beta`, with
+    :math:`t = \\operatorname{atan2}(b\\sin\\beta, a\\cos\\beta)`, so no chord turns
+    by more than ``ARC_STEP_RAD`` however elongated the ellipse.  The other is uniform in
+    :math:`t` itself: on a thin ellipse the first set alone leaves the flat sides with
+    chords whose sagitta, :math:`(1-\\cos(\\Delta\\beta/2))\\,a^2/b`, is a large fraction
+    of the thickness :math:`b`; with both, the sagitta is at most
+    :math:`(1-\\cos(\\Delta/2))\\,\\min(a, a^2/b)`.
     """
     a, b = radii
-    n = max(64, math.ceil(2 * math.pi / ARC_STEP_RAD))
+    # 1% finer than the step: on an ellipse a chord's direction is not exactly the
+    # normal at its middle, so the turn between chords slightly exceeds the step in beta.
+    n = max(64, math.ceil(1.01 * 2 * math.pi / ARC_STEP_RAD))
     beta = np.linspace(0.0, 2 * math.pi, n, endpoint=False)
-    t = np.arctan2(b * np.sin(beta), a * np.cos(beta))
+    t_normal = np.mod(np.arctan2(b * np.sin(beta), a * np.cos(beta)), 2 * math.pi)
+    t = np.unique(np.concatenate([t_normal, beta]))
+    t = t[np.diff(t, append=t[0] + 2 * math.pi) > 1e-9]
     x, y = a * np.cos(t), b * np.sin(t)
     c, s = math.cos(math.radians(angle_deg)), math.sin(math.radians(angle_deg))
     return np.column_stack([center[0] + c * x - s * y, center[1] + s * x + c * y])
@@ -106,7 +117,7 @@ def rounded_ring(pts: np.ndarray, radii: list[float]) -> np.ndarray:
     cross = u_in[:, 0] * u_out[:, 1] - u_in[:, 1] * u_out[:, 0]
     dot = np.einsum("ij,ij->i", u_in, u_out)
     phi = np.arctan2(cross, dot)
-    t = np.array([r * math.tan(abs(p) / 2) for r, p in zip(radii, phi)])
+    t = np.array([r * math.tan(abs(p) / 2) for r, p in zip(radii, phi, strict=True)])
     for i in range(n):
         j = (i + 1) % n
         if t[i] + t[j] > length[i] * (1 + 1e-9):
@@ -151,6 +162,17 @@ def part_outline(part: Part) -> PartOutline:
     return PartOutline(part.name, poly, oriented_rings(poly))
 
 
+def _meeting_point(pa: ShPolygon, pb: ShPolygon) -> tuple[float, float]:
+    """A point (mm) where two outlines overlap, or midway across the gap between them."""
+    if pa.intersects(pb):
+        pt = pa.intersection(pb).representative_point()
+        x, y = pt.x, pt.y
+    else:
+        qa, qb = shapely.ops.nearest_points(pa, pb)
+        x, y = (qa.x + qb.x) / 2, (qa.y + qb.y) / 2
+    return (round(x, 6) + 0.0, round(y, 6) + 0.0)
+
+
 def _explain(poly: ShPolygon) -> str:
     why = explain_validity(poly)
     m = re.search(r"\[\s*([-\d.e+]+)\s+([-\d.e+]+)\s*\]", why)
@@ -177,7 +199,7 @@ def validate_geometry(layout: Layout) -> tuple[PartOutline, ...]:
     outlines = layout_outlines(layout)
     if not layout.parts:
         return outlines
-    for part, ol in zip(layout.parts, outlines):
+    for part, ol in zip(layout.parts, outlines, strict=True):
         x0, y0, x1, y1 = ol.polygon.bounds
         if layout.symmetry == "axisymmetric" and x0 < -1e-9:
             raise LayoutError(f"part '{part.name}': reaches r = {x0:.4g} mm; in an "
@@ -193,23 +215,57 @@ def validate_geometry(layout: Layout) -> tuple[PartOutline, ...]:
     return outlines
 
 
+def largest_arc_radius(shape: Shape) -> float:
+    """The largest radius of curvature (mm) of any arc in a shape's outline; 0 if none.
+
+    For an ellipse with semi-axes :math:`a \\ge b` the radius reaches :math:`a^2/b`, but
+    its outline's sagitta is bounded as for a circle of radius :math:`a` (see
+    ``_ellipse_ring``), so :math:`a` is returned.
+    """
+    if isinstance(shape, Circle):
+        return shape.radius
+    if isinstance(shape, Ellipse):
+        return max(shape.radii)
+    if isinstance(shape, Rect):
+        return shape.corner_radius
+    if isinstance(shape, Polygon):
+        cr = shape.corner_radius
+        return max(cr) if isinstance(cr, tuple) else cr
+    return shape.width / 2
+
+
+def touch_tolerance_mm(a: Part, b: Part) -> float:
+    """Gap (mm) below which two outlines count as touching.
+
+    Discretised arcs are chords inside the true arcs, so the true gap can be smaller
+    than the computed one by up to the sum of the two sagittas,
+    :math:`(1-\\cos(\\Delta\\theta/2))(R_a + R_b)`; we allow 1.5 times that.
+    """
+    arcs = largest_arc_radius(a.shape) + largest_arc_radius(b.shape)
+    return 1.5 * _SAGITTA_REL * arcs + _GEOM_TOL_MM
+
+
 def _check_pairs(layout: Layout, outlines: tuple[PartOutline, ...]) -> None:
-    tree = shapely.STRtree([o.polygon for o in outlines])
-    left, right = tree.query([o.polygon for o in outlines], predicate="intersects")
-    for i, j in zip(left, right):
+    polys = [o.polygon for o in outlines]
+    widest = 1.5 * _SAGITTA_REL * 2 * max(largest_arc_radius(p.shape) for p in layout.parts)
+    tree = shapely.STRtree(polys)
+    left, right = tree.query(polys, predicate="dwithin", distance=widest + _GEOM_TOL_MM)
+    for i, j in sorted(zip(left.tolist(), right.tolist(), strict=True)):
         if i >= j:
             continue
-        _check_pair(layout.parts[i], outlines[i].polygon, layout.parts[j], outlines[j].polygon)
+        _check_pair(layout.parts[i], polys[i], layout.parts[j], polys[j])
 
 
 def _check_pair(a: Part, pa: ShPolygon, b: Part, pb: ShPolygon) -> None:
     names = f"parts '{a.name}' and '{b.name}'"
     if a.is_conductor and b.is_conductor:
-        if not same_conductor(a, b):
-            pt = pa.intersection(pb).representative_point()
+        if not same_conductor(a, b) and pa.distance(pb) <= touch_tolerance_mm(a, b):
+            pt = _meeting_point(pa, pb)
             raise LayoutError(f"{names}: two different conductors touch or overlap near "
-                              f"({pt.x:.4g}, {pt.y:.4g}) mm; separate them or give them "
+                              f"({pt[0]:.4g}, {pt[1]:.4g}) mm; separate them or give them "
                               f"the same voltage")
+        return
+    if not pa.intersects(pb):
         return
     area = pa.intersection(pb).area
     if area <= 1e-9 * min(pa.area, pb.area):
@@ -217,6 +273,9 @@ def _check_pair(a: Part, pa: ShPolygon, b: Part, pb: ShPolygon) -> None:
     if a.is_conductor or b.is_conductor:
         cond, diel = (a, b) if a.is_conductor else (b, a)
         pc, pd = (pa, pb) if a.is_conductor else (pb, pa)
+        if pd.buffer(-1e-9).within(pc):
+            raise LayoutError(f"part '{diel.name}': dielectric lies inside conductor "
+                              f"'{cond.name}', where there is no field; remove it or move it")
         if not pc.buffer(-1e-9).within(pd):
             raise LayoutError(f"part '{cond.name}': conductor lies partly inside dielectric "
                               f"'{diel.name}'; put it wholly inside, or cut a hole in the "

@@ -15,10 +15,10 @@ from __future__ import annotations
 
 import json
 import math
+import os
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from pathlib import Path
-from typing import Any, Literal, Union
+from typing import Any, Literal
 
 FORMAT_KEY = "stresslens_layout"
 FORMAT_VERSION = 1
@@ -26,11 +26,13 @@ MAX_FILE_BYTES = 20_000_000
 MAX_PARTS = 500
 MAX_VERTICES = 20_000
 MAX_COORD_MM = 1.0e6
+MIN_LENGTH_MM = 1.0e-4
+"""Smallest radius, width or spacing accepted (0.1 um); below it no grid is meaningful."""
 
 Point = tuple[float, float]
 Symmetry = Literal["planar", "axisymmetric"]
 Kind = Literal["electrode", "floating", "dielectric"]
-Resolution = Union[Literal["draft", "normal", "fine"], float]
+Resolution = Literal["draft", "normal", "fine"] | float
 
 KINDS = ("electrode", "floating", "dielectric")
 SYMMETRIES = ("planar", "axisymmetric")
@@ -92,7 +94,7 @@ class Path:
     type: Literal["path"] = "path"
 
 
-Shape = Union[Circle, Ellipse, Rect, Polygon, Path]
+Shape = Circle | Ellipse | Rect | Polygon | Path
 
 
 # --------------------------------------------------------------------------- layout
@@ -149,7 +151,7 @@ class PeekLimit:
     type: Literal["peek"] = "peek"
 
 
-Limit = Union[FixedLimit, PeekLimit]
+Limit = FixedLimit | PeekLimit
 
 
 @dataclass(frozen=True)
@@ -173,7 +175,7 @@ class Layout:
 # --------------------------------------------------------------------------- reading
 
 
-def load_layout(path: str | Path) -> Layout:
+def load_layout(path: str | os.PathLike[str]) -> Layout:
     """Read and validate a layout file; raise :class:`LayoutError` on any problem."""
     import pathlib
 
@@ -200,17 +202,20 @@ def loads_layout(data: str | bytes, source: str = "layout") -> Layout:
         except UnicodeDecodeError as exc:
             raise LayoutError(f"{source}: not UTF-8 text (byte {exc.start})") from None
     try:
-        obj = json.loads(data, parse_constant=_reject_constant)
+        obj = json.loads(data, parse_constant=_nonfinite_constant)
     except RecursionError:
         raise LayoutError(f"{source}: JSON nested too deeply") from None
     except json.JSONDecodeError as exc:
         raise LayoutError(f"{source}: not valid JSON ({exc.msg}, line {exc.lineno} "
                           f"column {exc.colno})") from None
+    except ValueError as exc:  # e.g. an integer literal of thousands of digits
+        raise LayoutError(f"{source}: not valid JSON ({exc})") from None
     return parse_layout(obj)
 
 
-def _reject_constant(name: str) -> Any:
-    raise LayoutError(f"non-finite number {name} in the file")
+def _nonfinite_constant(name: str) -> float:
+    """Keep NaN and +-Infinity as floats so the reader refuses them naming the field."""
+    return float(name)
 
 
 def parse_layout(obj: Any, check_geometry: bool = True) -> Layout:
@@ -220,7 +225,8 @@ def parse_layout(obj: Any, check_geometry: bool = True) -> Layout:
     if version is None:
         raise LayoutError(f"not a Stresslens layout: the key '{FORMAT_KEY}' is missing")
     if version > FORMAT_VERSION:
-        raise LayoutError(f"layout format version {version} is newer than this program "
+        shown = version if version < 10**6 else "far above 1"
+        raise LayoutError(f"layout format version {shown} is newer than this program "
                           f"understands (version {FORMAT_VERSION}); please update Stresslens")
     if version < 1:
         raise LayoutError(f"layout format version {version} is not valid")
@@ -229,6 +235,9 @@ def parse_layout(obj: Any, check_geometry: bool = True) -> Layout:
     boundary = _parse_boundary(r.get("boundary", "dict", default={"type": "open"}))
     limit = _parse_limit(r.get("limit", "dict", default={"type": "fixed", "kV_per_mm": 3.0}))
     resolution = _parse_resolution(r.raw("resolution", "normal"))
+    if symmetry == "axisymmetric" and boundary.min is not None and boundary.min[0] < 0:
+        raise LayoutError(f"boundary: in an axisymmetric layout x is the radius; the box "
+                          f"must start at r >= 0, not {boundary.min[0]:g} mm")
     parts_raw = r.get("parts", "list")
     if parts_raw is None:
         raise LayoutError("layout: the key 'parts' is missing")
@@ -294,10 +303,11 @@ def _parse_resolution(v: Any) -> Resolution:
             raise LayoutError(f"layout: 'resolution' must be one of {', '.join(RESOLUTION_NAMES)} "
                               f"or a spacing in mm, not '{v}'")
         return v  # type: ignore[return-value]
-    if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) or v <= 0:
-        raise LayoutError("layout: 'resolution' must be draft, normal, fine or a positive "
-                          "spacing in mm")
-    return float(v)
+    x = _Reader.as_number(v, "layout: 'resolution'") if not isinstance(v, bool) else -1.0
+    if not MIN_LENGTH_MM <= x <= MAX_COORD_MM:
+        raise LayoutError(f"layout: 'resolution' must be draft, normal, fine or a grid "
+                          f"spacing in mm between {MIN_LENGTH_MM:g} and {MAX_COORD_MM:g}")
+    return x
 
 
 def _parse_part(obj: Any, index: int) -> Part:
@@ -342,6 +352,7 @@ def _parse_shape(d: Mapping[str, Any] | None, label: str) -> Shape:
         radii = r.point("radii")
         if not (radii[0] > 0 and radii[1] > 0):
             raise LayoutError(f"{label} shape: both 'radii' must be positive")
+        _check_length(min(radii), f"{label} shape: 'radii'")
         shape = Ellipse(center=r.point("center"), radii=radii,
                         angle_deg=r.get("angle_deg", "number", default=0.0))
     elif kind == "rect":
@@ -350,9 +361,12 @@ def _parse_shape(d: Mapping[str, Any] | None, label: str) -> Shape:
             raise LayoutError(f"{label} shape: rect 'max' must be above and right of 'min' "
                               f"(it has no area)")
         cr = r.get("corner_radius", "number", default=0.0)
-        if cr < 0 or cr > 0.5 * min(hi[0] - lo[0], hi[1] - lo[1]) + 1e-12:
+        if cr < 0 or cr > 0.5 * min(hi[0] - lo[0], hi[1] - lo[1]) * (1 + 1e-12):
             raise LayoutError(f"{label} shape: 'corner_radius' must lie between 0 and half "
-                              f"the shorter side")
+                              f"the shorter side ({0.5 * min(hi[0] - lo[0], hi[1] - lo[1]):g}"
+                              f" mm), not {cr:g}")
+        if cr:
+            _check_length(cr, f"{label} shape: 'corner_radius'")
         shape = Rect(min=lo, max=hi, corner_radius=cr)
     elif kind == "polygon":
         pts = r.ring("points", 3)
@@ -364,6 +378,9 @@ def _parse_shape(d: Mapping[str, Any] | None, label: str) -> Shape:
                                                                                label))
     else:
         pts = r.ring("points", 2)
+        if all(p == pts[0] for p in pts):
+            raise LayoutError(f"{label} shape: all points of the path coincide (it has no "
+                              f"length); use a circle for a round wire")
         shape = Path(points=pts, width=r.positive("width"))
     r.done()
     nverts = len(getattr(shape, "points", ())) + sum(len(h) for h in getattr(shape, "holes", ()))
@@ -377,14 +394,28 @@ def _corner_radii(v: Any, n: int, label: str) -> float | tuple[float, ...]:
         if len(v) != n:
             raise LayoutError(f"{label} shape: 'corner_radius' has {len(v)} values for {n} "
                               f"vertices")
-        vals = tuple(_Reader.as_number(x, f"{label} shape corner_radius") for x in v)
+        vals = tuple(_Reader.as_number(x, f"{label} shape: 'corner_radius'") for x in v)
         if any(x < 0 for x in vals):
             raise LayoutError(f"{label} shape: 'corner_radius' values must not be negative")
+        for x in vals:
+            if x:
+                _check_length(x, f"{label} shape: 'corner_radius'")
         return vals
-    x = _Reader.as_number(v, f"{label} shape corner_radius")
+    x = _Reader.as_number(v, f"{label} shape: 'corner_radius'")
     if x < 0:
         raise LayoutError(f"{label} shape: 'corner_radius' must not be negative")
+    if x:
+        _check_length(x, f"{label} shape: 'corner_radius'")
     return x
+
+
+def _check_length(x: float, where: str) -> None:
+    """Refuse a length (mm) outside [MIN_LENGTH_MM, MAX_COORD_MM]."""
+    if x < MIN_LENGTH_MM:
+        raise LayoutError(f"{where} is {x:g} mm, below the smallest length Stresslens "
+                          f"handles ({MIN_LENGTH_MM:g} mm)")
+    if x > MAX_COORD_MM:
+        raise LayoutError(f"{where} is {x:g} mm, larger than {MAX_COORD_MM:g} mm")
 
 
 class _Reader:
@@ -393,7 +424,8 @@ class _Reader:
     def __init__(self, obj: Any, label: str) -> None:
         if not isinstance(obj, dict):
             raise LayoutError(f"{label}: expected an object, got {_typename(obj)}")
-        self.obj, self.label, self.seen = obj, label, set()
+        self.obj, self.label = obj, label
+        self.seen: set[str] = set()
 
     def raw(self, key: str, default: Any = None) -> Any:
         self.seen.add(key)
@@ -444,6 +476,7 @@ class _Reader:
             raise LayoutError(f"{self.label}: needs '{key}'")
         if v <= 0:
             raise LayoutError(f"{self.label}: '{key}' must be positive, not {v:g}")
+        _check_length(v, f"{self.label}: '{key}'")
         return v
 
     def ring(self, key: str, minimum: int) -> tuple[Point, ...]:
@@ -461,7 +494,10 @@ class _Reader:
     def as_number(v: Any, where: str) -> float:
         if isinstance(v, bool) or not isinstance(v, (int, float)):
             raise LayoutError(f"{where} must be a number, got {_typename(v)}")
-        x = float(v)
+        try:
+            x = float(v)
+        except OverflowError:
+            raise LayoutError(f"{where} is out of range") from None
         if not math.isfinite(x):
             raise LayoutError(f"{where} must be a finite number")
         if abs(x) > 1e300:
