@@ -1,0 +1,237 @@
+"""Discharge inception from the streamer criterion, along field lines from the hot spots.
+
+The criterion (Raether, Meek; used for air gaps by Schumann and Pedersen): a discharge
+starts when an electron avalanche growing along a field line reaches a critical size,
+
+.. math:: \\int_0^{x_c} \\alpha_{eff}\\big(E(x)\\big)\\, dx = K,
+
+integrated from the electrode surface over the stretch where ionisation beats
+attachment (:math:`E > E_{crit}`).  The field is linear in the electrode potentials,
+so with all potentials multiplied by a scale S the field is :math:`S E_1(x)`; the
+integral grows monotonically with S, and the inception scale is its root.  We use
+Schumann's quadratic fit for :math:`\\alpha_{eff}` with his K/C ratio
+(:mod:`solver.air`); that pair reproduces Schumann's uniform-field law exactly, the
+standard sphere-gap table within about 3 % and Peek's coaxial law within 4 %.
+
+What the estimate ignores is in :data:`INCEPTION_CAUTION`; show it wherever the
+number is shown.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+from numpy.typing import ArrayLike
+from scipy.optimize import brentq
+
+from .air import SCHUMANN_C, SCHUMANN_E0_KV_PER_CM_BAR, STREAMER_K, critical_field_kV_per_mm
+from .inception_path import FieldProbe, GasPath, trace_gas_path
+
+INCEPTION_CAUTION = (
+    "The inception voltage is an estimate for design guidance, from the streamer criterion "
+    "in clean dry air with Schumann's ionisation fit. It ignores humidity, surface condition "
+    "and contamination, polarity, impulse versus steady voltage, space charge, and 3D effects "
+    "outside this cross-section. Clearances and test voltages follow the applicable standards "
+    "and local codes; this estimate is no substitute for testing and licensed practice."
+)
+"""Caution to show with every inception figure (GUI, reports, command line)."""
+
+_MAX_DOUBLINGS = 200
+
+
+class InceptionError(ValueError):
+    """No inception estimate is possible; the message says why."""
+
+
+# --------------------------------------------------------------------------- core
+
+
+def _segment_lengths(n: int, ds_mm: float | ArrayLike) -> np.ndarray:
+    ds = np.asarray(ds_mm, dtype=float)
+    if ds.ndim == 0:
+        ds = np.full(max(n - 1, 0), float(ds))
+    if ds.shape != (max(n - 1, 0),):
+        raise ValueError(f"need {n - 1} segment lengths for {n} field samples, got {ds.shape}")
+    if np.any(~(ds >= 0.0)):
+        raise ValueError("segment lengths along a path must be non-negative (mm)")
+    return ds
+
+
+def streamer_integral(E_along_path_kV_per_mm: ArrayLike, ds_mm: float | ArrayLike,
+                      p_bar: float, C: float = SCHUMANN_C) -> float:
+    r"""Ionisation integral :math:`\int \alpha_{eff}\, ds` along a path (dimensionless).
+
+    .. math::
+        \int \alpha_{eff}\, ds = \int C p \left[\max\left(\frac{E}{p} - \left(\frac{E}{p}
+        \right)_0, 0\right)\right]^2 ds
+
+    The field is taken linear between samples and each segment integrated exactly
+    (no error from where the integrand switches on between samples).
+
+    Parameters
+    ----------
+    E_along_path_kV_per_mm : field magnitude at the M path samples, kV/mm peak.
+    ds_mm : segment lengths between samples (M-1 values, or one spacing), mm.
+    p_bar : pressure of air at 20 degC with the same density, bar.
+    C : coefficient of Schumann's fit, cm bar/kV^2 (see :func:`solver.air.alpha_eff_per_cm`).
+    """
+    E = np.asarray(E_along_path_kV_per_mm, dtype=float)
+    ds = _segment_lengths(E.size, ds_mm)
+    if E.size < 2:
+        return 0.0
+    x = E * 10.0 / p_bar - SCHUMANN_E0_KV_PER_CM_BAR  # excess reduced field, kV/(cm bar)
+    return float(C * p_bar * np.sum(ds / 10.0 * _mean_square_positive(x[:-1], x[1:])))
+
+
+def _mean_square_positive(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    r"""Mean of :math:`\max(x, 0)^2` over a segment where x runs linearly from a to b."""
+    both = (a * a + a * b + b * b) / 3.0
+    hi = np.maximum(a, b)
+    lo = np.minimum(a, b)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        crossing = hi**3 / (3.0 * (hi - lo))  # positive fraction hi/(hi-lo) times hi^2/3
+    return np.where(lo >= 0.0, both, np.where(hi > 0.0, crossing, 0.0))
+
+
+def inception_scale(E_unit_kV_per_mm: ArrayLike, ds_mm: float | ArrayLike, p_bar: float,
+                    K: float = STREAMER_K, C: float = SCHUMANN_C) -> float:
+    r"""The factor S on all potentials at which the streamer integral along a path reaches K.
+
+    With the field :math:`S\,E_1(s)` the integral :math:`I(S)` is zero up to
+    :math:`S_0 = E_{crit} / \max E_1` and increases monotonically beyond; the root of
+    :math:`I(S) = K` is bracketed by doubling from :math:`S_0` and found with Brent's
+    method to a relative tolerance of 1e-10.
+
+    Parameters
+    ----------
+    E_unit_kV_per_mm : field magnitude along the path at scale 1, kV/mm.
+    ds_mm : segment lengths between samples, mm.
+    p_bar : pressure of air at 20 degC with the same density, bar.
+    K, C : the critical integral and the fit coefficient, calibrated together.
+
+    Raises
+    ------
+    InceptionError : the field is zero everywhere on the path, or the path has no length.
+    """
+    E = np.asarray(E_unit_kV_per_mm, dtype=float)
+    ds = _segment_lengths(E.size, ds_mm)
+    if not (K > 0 and C > 0):
+        raise ValueError("K and C must be positive")
+    peak = float(np.max(E)) if E.size else 0.0
+    if not (math.isfinite(peak) and peak > 0.0) or float(np.sum(ds)) <= 0.0:
+        raise InceptionError("no field along the path: every electrode may be at the same "
+                             "potential, or the path has no length")
+
+    def excess(S: float) -> float:
+        return streamer_integral(S * E, ds, p_bar, C) - K
+
+    lo = critical_field_kV_per_mm(p_bar) / peak
+    hi = 2.0 * lo
+    for _ in range(_MAX_DOUBLINGS):
+        if excess(hi) >= 0.0:
+            break
+        lo, hi = hi, 2.0 * hi
+    else:
+        raise InceptionError("the streamer integral never reaches K along this path")
+    return float(brentq(excess, lo, hi, xtol=1e-14, rtol=1e-10))
+
+
+def ionisation_length_mm(E_kV_per_mm: np.ndarray, s_mm: np.ndarray, p_bar: float) -> float:
+    """Length of path where the field exceeds the critical field (linear between samples), mm."""
+    x = E_kV_per_mm - critical_field_kV_per_mm(p_bar)
+    a, b, ds = x[:-1], x[1:], np.diff(s_mm)
+    hi, lo = np.maximum(a, b), np.minimum(a, b)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        frac = np.where(lo >= 0, 1.0, np.where(hi > 0, hi / (hi - lo), 0.0))
+    return float(np.sum(frac * ds))
+
+
+# --------------------------------------------------------------------------- result
+
+
+@dataclass(frozen=True)
+class Inception:
+    """A streamer-criterion inception estimate for one layout.
+
+    ``scale`` S multiplies every electrode potential (and the charge of floating
+    parts); ``volts`` are the electrode potentials at inception, V.  ``path_mm`` (M, 2)
+    is the field line the estimate integrates along, from the surface of
+    ``start_part``; ``E_unit_kV_per_mm`` the field along it at the layout's own
+    voltages.  ``utilisation`` is the field utilisation factor of the gap,
+    :math:`\\eta = (U/d) / E_{max}` with U the potential difference between the path's
+    ends and d its length; None when the path does not end on another conductor.
+    """
+
+    scale: float
+    volts: dict[str, float]
+    path_mm: np.ndarray
+    s_mm: np.ndarray
+    E_unit_kV_per_mm: np.ndarray
+    start_part: str
+    ends_at: str
+    K: float
+    p_bar: float
+    peak_field_kV_per_mm: float
+    """Peak of the field along the path at inception, kV/mm."""
+    ionisation_length_mm: float
+    """Length of path with field above the critical field at inception, mm."""
+    utilisation: float | None
+    notes: tuple[str, ...] = field(default_factory=tuple)
+    criterion: str = "streamer"
+
+
+def path_inception(path: GasPath, p_bar: float, K: float = STREAMER_K,
+                   C: float = SCHUMANN_C) -> tuple[float, float, float]:
+    """Inception scale, peak field at inception (kV/mm) and ionisation length (mm) on a path."""
+    ds = np.diff(path.s_mm)
+    S = inception_scale(path.E_kV_per_mm, ds, p_bar, K, C)
+    E = S * path.E_kV_per_mm
+    return S, float(np.max(E)), ionisation_length_mm(E, path.s_mm, p_bar)
+
+
+def utilisation_factor(path: GasPath, start_volts: float,
+                       end_volts: float | None) -> float | None:
+    r"""Field utilisation of the gap along a path, :math:`\eta = |U| / (d\, E_{max})`."""
+    if end_volts is None or path.s_mm[-1] <= 0.0:
+        return None
+    peak = float(np.max(path.E_kV_per_mm))
+    return abs(start_volts - end_volts) / 1000.0 / (float(path.s_mm[-1]) * peak)
+
+
+def inception_to_json(inc: Inception, max_points: int = 400) -> dict:
+    """The command line's ``"inception"`` object (DESIGN section 3), JSON-ready.
+
+    Keys ``criterion``, ``scale``, ``volts`` {part: V} and ``path_mm`` [[x, y], ...]
+    (at most ``max_points``, evenly thinned, ends kept) as the contract says, plus
+    ``start_part``, ``ends_at``, ``peak_field_kV_per_mm``, ``ionisation_length_mm``,
+    ``utilisation``, ``K``, ``pressure_bar`` and ``caution``.
+    """
+    pts = inc.path_mm
+    if len(pts) > max_points:
+        keep = np.unique(np.linspace(0, len(pts) - 1, max_points).round().astype(int))
+        pts = pts[keep]
+    return {
+        "criterion": inc.criterion,
+        "scale": float(inc.scale),
+        "volts": {k: float(v) for k, v in inc.volts.items()},
+        "path_mm": [[round(float(x), 6), round(float(y), 6)] for x, y in pts],
+        "start_part": inc.start_part,
+        "ends_at": inc.ends_at,
+        "peak_field_kV_per_mm": float(inc.peak_field_kV_per_mm),
+        "ionisation_length_mm": float(inc.ionisation_length_mm),
+        "utilisation": None if inc.utilisation is None else float(inc.utilisation),
+        "K": float(inc.K),
+        "pressure_bar": float(inc.p_bar),
+        "notes": list(inc.notes),
+        "caution": INCEPTION_CAUTION,
+    }
+
+
+__all__ = [
+    "INCEPTION_CAUTION", "FieldProbe", "GasPath", "Inception", "InceptionError",
+    "inception_scale", "inception_to_json", "ionisation_length_mm", "path_inception",
+    "streamer_integral", "trace_gas_path", "utilisation_factor",
+]
+
