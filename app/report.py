@@ -7,15 +7,13 @@ peak surface field, limit and margin, a legend that also reads in black and whit
 and the high-voltage caution.  :func:`write_report` picks the format from the file
 extension: ``.pdf`` gets both pages, ``.png`` and ``.svg`` the figure only.
 
-matplotlib ``Figure`` objects only (no pyplot, no global backend); files are written to
-a temporary name beside the target and renamed into place, so a failed export never
-leaves a half-written file or destroys an older one.
+matplotlib ``Figure`` objects only (no pyplot, no global backend); files are written
+whole or not at all (:mod:`app.atomic_file`), so a failed export never leaves a
+half-written file or destroys an older one.
 """
 
 from __future__ import annotations
 
-import os
-import tempfile
 import textwrap
 from datetime import datetime, timezone
 from pathlib import Path
@@ -26,6 +24,7 @@ from matplotlib.patches import Patch
 
 from solver.solution import Solution
 
+from .atomic_file import write_atomically
 from .caution import CAUTION
 from .plotting import (
     EQUIPOTENTIAL_COLOUR,
@@ -181,11 +180,10 @@ def write_report(solution: Solution, path: str | Path, overlays: ReportOverlays 
     if ext not in REPORT_FORMATS:
         raise ReportError(f"{target.name}: unknown report format '{ext or '(none)'}'; "
                           f"use one of {', '.join(REPORT_FORMATS)}")
-    if not target.parent.is_dir():
-        raise ReportError(f"{target.parent}: no such folder")
     when = when or datetime.now(timezone.utc)
     fig = render_figure(solution, overlays, source_name or target.name, when)
-    _atomic_write(target, lambda f: _save(f, ext, fig, solution, source_name, when))
+    write_atomically(target, lambda f: _save(f, ext, fig, solution, source_name, when), False,
+                     ReportError)
     return target
 
 
@@ -207,28 +205,3 @@ def _save(f: object, ext: str, fig: Figure, solution: Solution, source_name: str
         with PdfPages(f, metadata={**meta, "Subject": CAUTION}) as pdf:
             pdf.savefig(fig)
             pdf.savefig(render_tables_page(solution, source_name, when))
-
-
-def _atomic_write(target: Path, write: object) -> None:
-    """Write through a temporary file in the same folder, then rename over the target."""
-    try:
-        fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", dir=target.parent)
-    except OSError as exc:
-        raise ReportError(f"{target.parent}: cannot write here ({exc.strerror})") from None
-    try:
-        with os.fdopen(fd, "wb") as f:
-            write(f)  # type: ignore[operator]
-        os.chmod(tmp, 0o666 & ~_umask())
-        os.replace(tmp, target)
-    except OSError as exc:
-        raise ReportError(f"{target}: cannot write ({exc.strerror})") from None
-    finally:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-
-
-def _umask() -> int:
-    """The process umask (read by setting and restoring it)."""
-    mask = os.umask(0)
-    os.umask(mask)
-    return mask
