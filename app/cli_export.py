@@ -41,10 +41,9 @@ def run(args: argparse.Namespace) -> int:
     if args.step is not None and args.grid is None:
         print("stresslens export: --step applies to --grid only", file=sys.stderr)
         return EXIT_BAD_INPUT
-    solved = solve_layout(args)
-    if solved is None:
+    solution = solve_layout(args)
+    if solution is None:
         return EXIT_BAD_INPUT
-    _, solution = solved
     try:
         if args.grid is not None:
             grid_axes(solution, args.step)  # a bad step is bad input, not a write failure

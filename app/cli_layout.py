@@ -10,7 +10,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from solver.layout import RESOLUTION_NAMES, Layout, LayoutError, Resolution, load_layout
+from solver.layout import RESOLUTION_NAMES, LayoutError, Resolution, load_layout
 from solver.solution import Solution
 
 EXIT_OK, EXIT_WRITE_FAILED, EXIT_BAD_INPUT = 0, 1, 2
@@ -39,13 +39,12 @@ def add_layout_arguments(parser: argparse.ArgumentParser) -> None:
                         "(default: the layout's own)")
 
 
-def solve_layout(args: argparse.Namespace) -> tuple[Layout, Solution] | None:
+def solve_layout(args: argparse.Namespace) -> Solution | None:
     """Load and solve ``args.layout``; on a bad layout print the message, return None."""
     import solver
 
     try:
-        layout = load_layout(args.layout)
-        return layout, solver.solve(layout, resolution=args.resolution)
+        return solver.solve(load_layout(args.layout), resolution=args.resolution)
     except LayoutError as exc:
         print(f"stresslens: {exc}", file=sys.stderr)
         return None

@@ -63,10 +63,9 @@ def run(args: argparse.Namespace) -> int:
         print(f"stresslens: {out.name}: unknown report format '{out.suffix or '(none)'}'; "
               f"use one of {', '.join(REPORT_FORMATS)}", file=sys.stderr)
         return EXIT_BAD_INPUT
-    solved = solve_layout(args)
-    if solved is None:
+    solution = solve_layout(args)
+    if solution is None:
         return EXIT_BAD_INPUT
-    _, solution = solved
     try:
         write_report(solution, out, overlays_from(args), source_name=args.layout.name)
     except ReportError as exc:
