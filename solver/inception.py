@@ -21,13 +21,24 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
 
 import numpy as np
 from numpy.typing import ArrayLike
 from scipy.optimize import brentq
 
-from .air import SCHUMANN_C, SCHUMANN_E0_KV_PER_CM_BAR, STREAMER_K, critical_field_kV_per_mm
-from .inception_path import FieldProbe, GasPath, trace_gas_path
+from .air import (
+    SCHUMANN_C,
+    SCHUMANN_E0_KV_PER_CM_BAR,
+    STREAMER_K,
+    critical_field_kV_per_mm,
+    equivalent_pressure_bar,
+)
+from .inception_path import GAS, OUTSIDE, FieldProbe, GasPath, trace_gas_path
+from .layout import PeekLimit
+
+if TYPE_CHECKING:
+    from .solution import Solution
 
 INCEPTION_CAUTION = (
     "The inception voltage is an estimate for design guidance, from the streamer criterion "
@@ -229,8 +240,164 @@ def inception_to_json(inc: Inception, max_points: int = 400) -> dict:
     }
 
 
+# --------------------------------------------------------------------------- on a solution
+
+
+def probe_from_solution(solution: Solution) -> FieldProbe:
+    """A :class:`FieldProbe` over a solved layout: ``solver.sample`` for the field, the
+    exact part outlines (shapely) for the bodies, the grid's extent for the domain."""
+    import shapely
+
+    from . import sample
+    from .geometry import layout_outlines
+
+    polygons = [o.polygon for o in layout_outlines(solution.layout)]
+    x0, x1 = float(solution.x_mm[0]), float(solution.x_mm[-1])
+    y0, y1 = float(solution.y_mm[0]), float(solution.y_mm[-1])
+
+    def field(points: np.ndarray) -> np.ndarray:
+        return np.asarray(sample(solution, points)[1], dtype=float)
+
+    def region(points: np.ndarray) -> np.ndarray:
+        x, y = points[:, 0], points[:, 1]
+        out = np.where((x < x0) | (x > x1) | (y < y0) | (y > y1), OUTSIDE, GAS)
+        for k, poly in enumerate(polygons):
+            out = np.where((out == GAS) & shapely.intersects_xy(poly, x, y), k, out)
+        return out
+
+    names = tuple(p.name for p in solution.layout.parts)
+    return FieldProbe(field, region, names, solution.layout.symmetry == "axisymmetric")
+
+
+def _air_state(solution: Solution, pressure_kPa: float | None,
+               temperature_C: float | None) -> tuple[float, float]:
+    limit = solution.layout.limit
+    if isinstance(limit, PeekLimit):
+        p, t = limit.pressure_kPa, limit.temperature_C
+    else:
+        p, t = 101.325, 20.0
+    return (p if pressure_kPa is None else pressure_kPa,
+            t if temperature_C is None else temperature_C)
+
+
+def _local_spacing_mm(solution: Solution, xy: np.ndarray) -> float:
+    ix = int(np.clip(np.searchsorted(solution.x_mm, xy[0]), 1, len(solution.x_mm) - 1))
+    iy = int(np.clip(np.searchsorted(solution.y_mm, xy[1]), 1, len(solution.y_mm) - 1))
+    return float(min(solution.x_mm[ix] - solution.x_mm[ix - 1],
+                     solution.y_mm[iy] - solution.y_mm[iy - 1]))
+
+
+def _conductor_volts(solution: Solution, name: str) -> float | None:
+    part = solution.layout.part(name)
+    if part.kind == "electrode":
+        return part.volts
+    if part.kind == "floating":
+        return solution.part(name).volts
+    return None
+
+
+def _end_volts(solution: Solution, path: GasPath, probe: FieldProbe) -> tuple[str, float | None]:
+    """Where a path ends, in words, and the potential there (V) when it is a conductor."""
+    if path.ends_at == "body":
+        name = probe.names[path.end_body]
+        volts = _conductor_volts(solution, name)
+        return (f"conductor {name}" if volts is not None else f"solid insulation {name}"), volts
+    boundary = solution.layout.boundary
+    if path.ends_at == "outside":
+        if boundary.type == "box" and boundary.volts is not None:
+            return "box wall", boundary.volts
+        return "far boundary", None
+    return ("open space (field faded)" if path.ends_at == "faded" else "length cap"), None
+
+
+def _notes(solution: Solution, start_part: str, ends_at: str) -> tuple[str, ...]:
+    notes = []
+    for part in solution.layout.parts:
+        if part.kind == "floating" and part.charge:
+            notes.append(f"floating part {part.name} carries a fixed charge; the scale assumes "
+                         "its charge grows with the voltages")
+    if solution.part(start_part).sharp_corner:
+        notes.append(f"the path starts at a sharp corner of {start_part}; the field there "
+                     "depends on the grid, so round the corner for a firm figure")
+    if ends_at.startswith(("open space", "far boundary", "length")):
+        notes.append("the field line does not reach another conductor: this is corona "
+                     "onset, not breakdown of a gap")
+    return tuple(notes)
+
+
+def _start_points(solution: Solution) -> list[tuple[str, np.ndarray, np.ndarray, float]]:
+    """(part, point mm, outward normal, surface field kV/mm) at each conductor's peak and
+    at each hot spot on a conductor."""
+    conductors = {p.name for p in solution.layout.parts if p.is_conductor}
+    traces = [t for t in solution.surfaces if t.part in conductors and len(t.E_kV_per_mm)]
+    picks: set[tuple[int, int]] = set()
+    for name in conductors:
+        own = [(k, t) for k, t in enumerate(traces) if t.part == name]
+        if own:
+            k, t = max(own, key=lambda kt: float(np.max(kt[1].E_kV_per_mm)))
+            picks.add((k, int(np.argmax(t.E_kV_per_mm))))
+    for spot in solution.hot_spots:
+        own = [(k, t) for k, t in enumerate(traces) if t.part == spot.part]
+        if own:
+            dist = [(float(np.min(np.hypot(*(t.xy_mm - spot.at_mm).T))), k) for k, t in own]
+            k = min(dist)[1]
+            picks.add((k, int(np.argmin(np.hypot(*(traces[k].xy_mm - spot.at_mm).T)))))
+    return [(traces[k].part, traces[k].xy_mm[i], traces[k].normal[i],
+             float(traces[k].E_kV_per_mm[i])) for k, i in sorted(picks)]
+
+
+def estimate_inception_at(solution: Solution, start: tuple[str, np.ndarray, np.ndarray, float],
+                          pressure_kPa: float | None = None, temperature_C: float | None = None,
+                          K: float = STREAMER_K, probe: FieldProbe | None = None) -> Inception:
+    """The streamer estimate along the field line from one surface point.
+
+    ``start`` is (part name, point mm, outward unit normal, surface field kV/mm at the
+    layout's voltages).  Air defaults to the layout's Peek-limit state, else 101.325
+    kPa and 20 degC.
+    """
+    probe = probe_from_solution(solution) if probe is None else probe
+    part, xy, normal, E_surface = start
+    p_bar = equivalent_pressure_bar(*_air_state(solution, pressure_kPa, temperature_C))
+    h0 = 0.25 * _local_spacing_mm(solution, np.asarray(xy))
+    extent = float(np.hypot(np.ptp(solution.x_mm), np.ptp(solution.y_mm)))
+    path = trace_gas_path(probe, xy, normal, h0, extent, start_field_kV_per_mm=E_surface)
+    S, peak, length = path_inception(path, p_bar, K)
+    ends_at, end_volts = _end_volts(solution, path, probe)
+    start_volts = _conductor_volts(solution, part)
+    volts = {p.name: S * float(p.volts) for p in solution.layout.parts
+             if p.kind == "electrode" and p.volts is not None}
+    return Inception(
+        scale=S, volts=volts, path_mm=path.xy_mm, s_mm=path.s_mm,
+        E_unit_kV_per_mm=path.E_kV_per_mm, start_part=part, ends_at=ends_at, K=K, p_bar=p_bar,
+        peak_field_kV_per_mm=peak, ionisation_length_mm=length,
+        utilisation=utilisation_factor(path, start_volts or 0.0, end_volts),
+        notes=_notes(solution, part, ends_at))
+
+
+def estimate_inception(solution: Solution, pressure_kPa: float | None = None,
+                       temperature_C: float | None = None, K: float = STREAMER_K,
+                       probe: FieldProbe | None = None) -> Inception:
+    """The layout's inception estimate: the smallest scale over every conductor's peak-field
+    point and every hot spot on a conductor.  ``probe`` defaults to
+    :func:`probe_from_solution`.
+
+    Raises
+    ------
+    InceptionError : no conductor surface carries any field.
+    """
+    starts = [s for s in _start_points(solution) if s[3] > 0.0]
+    if not starts:
+        raise InceptionError("no conductor surface carries any field: every electrode is at "
+                             "the same potential")
+    probe = probe_from_solution(solution) if probe is None else probe
+    results = [estimate_inception_at(solution, s, pressure_kPa, temperature_C, K, probe)
+               for s in starts]
+    return min(results, key=lambda inc: inc.scale)
+
+
 __all__ = [
     "INCEPTION_CAUTION", "FieldProbe", "GasPath", "Inception", "InceptionError",
+    "estimate_inception", "estimate_inception_at", "probe_from_solution",
     "inception_scale", "inception_to_json", "ionisation_length_mm", "path_inception",
     "streamer_integral", "trace_gas_path", "utilisation_factor",
 ]

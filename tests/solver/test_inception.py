@@ -196,7 +196,7 @@ def test_coaxial_inception_against_peeks_coaxial_law(r_mm):
 # --------------------------------------------------------------------------- the tracer
 
 
-def coax_probe(r: float, R: float, U: float) -> FieldProbe:
+def coax_probe(r: float, R: float, U: float, names=("Inner", "Outer")) -> FieldProbe:
     """Planar coaxial cylinders: inner radius r at U volts, outer radius R earthed."""
     def field(p: np.ndarray) -> np.ndarray:
         rho2 = np.sum(p * p, axis=1)[:, None]
@@ -206,7 +206,7 @@ def coax_probe(r: float, R: float, U: float) -> FieldProbe:
         rho = np.hypot(p[:, 0], p[:, 1])
         return np.where(rho <= r, 0, np.where(rho >= R, 1, GAS))
 
-    return FieldProbe(field, region, ("Inner", "Outer"))
+    return FieldProbe(field, region, tuple(names))
 
 
 def test_tracer_runs_radially_across_a_coaxial_gap():
@@ -298,3 +298,76 @@ def test_caution_names_what_the_estimate_ignores():
     for word in ("humidity", "surface", "polarity", "impulse", "space charge", "3D",
                  "standards", "local codes", "testing", "licensed"):
         assert word in INCEPTION_CAUTION
+
+
+# --------------------------------------------------------------------------- on a Solution
+
+
+SOL_NAMES = ("Core", "Sheath")
+
+
+def analytic_coax_solution(r: float, R: float, volts: float):
+    """A Solution filled in by hand from the exact planar coaxial field (no grid solve)."""
+    from solver.layout import parse_layout
+    from solver.solution import PartResult, Solution, SurfaceTrace
+
+    hole = [[R * math.cos(t), R * math.sin(t)] for t in np.linspace(0, 2 * math.pi, 721)[:-1]]
+    layout = parse_layout({
+        "stresslens_layout": 1, "symmetry": "planar",
+        "parts": [
+            {"name": "Core", "kind": "electrode", "volts": volts,
+             "shape": {"type": "circle", "center": [0, 0], "radius": r}},
+            {"name": "Sheath", "kind": "electrode", "volts": 0,
+             "shape": {"type": "polygon", "points": [[-60, -60], [60, -60], [60, 60], [-60, 60]],
+                       "holes": [hole[::-1]]}}]})
+    t = np.linspace(0, 2 * math.pi, 73)[:-1]
+    n = np.stack([np.cos(t), np.sin(t)], axis=1)
+    E = np.full(t.size, volts / 1000 / (r * math.log(R / r)))
+    trace = SurfaceTrace("Core", 0, r * t, r * n, n, E, np.full(t.size, 3.0), np.full(t.size, r))
+    x = np.linspace(-60, 60, 241)
+    peak = float(E[0])
+    parts = (PartResult("Core", "electrode", volts, None, peak, (r, 0.0), 3.0, 0.0),
+             PartResult("Sheath", "electrode", 0.0, None, 0.0, (R, 0.0), 3.0, 0.0))
+    return Solution(layout, x, x, np.zeros((241, 241)), np.zeros((241, 241)),
+                    np.zeros((241, 241)), np.full((241, 241), -1), np.ones((241, 241)), parts,
+                    (trace,), (), np.zeros((2, 2)), ("Core", "Sheath"), 0, 0.0, True, 0.0, peak)
+
+
+def test_estimate_on_a_hand_made_coaxial_solution():
+    # exact planar coaxial field (REFERENCES section 1.1), r = 1 mm, R = 50 mm, 20 kV applied;
+    # the estimate must equal the dense radial integral and report the gap's utilisation
+    r, R, volts = 1.0, 50.0, 20000.0
+    from solver.inception import estimate_inception, inception_to_json
+
+    sol = analytic_coax_solution(r, R, volts)
+    inc = estimate_inception(sol, probe=coax_probe(r, R, volts, SOL_NAMES))
+    rho = np.linspace(r, R, 200001)
+    p = equivalent_pressure_bar(101.325, 20.0)  # no Peek limit in the layout: standard air
+    U_c = inception_scale(1e-3 / (rho * math.log(R / r)), np.diff(rho), p)
+    assert inc.volts["Core"] == pytest.approx(U_c, rel=2e-3)
+    assert inc.volts["Sheath"] == 0.0
+    assert inc.scale == pytest.approx(U_c / volts, rel=2e-3)
+    assert inc.start_part == "Core" and inc.ends_at == "conductor Sheath"
+    assert inc.utilisation == pytest.approx(r * math.log(R / r) / (R - r), rel=3e-3)
+    assert inc.notes == ()
+    out = inception_to_json(inc)
+    assert out["criterion"] == "streamer" and out["volts"]["Core"] == pytest.approx(U_c, rel=2e-3)
+    assert out["path_mm"][0] == pytest.approx([r, 0.0]) and len(out["path_mm"]) <= 400
+    assert out["caution"] == INCEPTION_CAUTION
+
+
+def test_estimate_uses_the_air_of_the_peek_limit():
+    # thinner air incepts lower (density scaling of Schumann's law, Kuffel et al. 2000, from
+    # memory); 80 kPa, 40 degC is a density of 0.74 of standard
+    from dataclasses import replace
+
+    from solver.inception import estimate_inception
+    from solver.layout import PeekLimit
+
+    sol = analytic_coax_solution(1.0, 50.0, 20000.0)
+    probe = coax_probe(1.0, 50.0, 20000.0, SOL_NAMES)
+    thin = replace(sol, layout=replace(sol.layout, limit=PeekLimit(80.0, 40.0, 1.0)))
+    low = estimate_inception(thin, probe=probe)
+    std = estimate_inception(sol, probe=probe)
+    assert low.p_bar == pytest.approx(equivalent_pressure_bar(80.0, 40.0))
+    assert 0.6 < low.scale / std.scale < 0.9
