@@ -80,8 +80,6 @@ class SelectTool(Tool):
             for pid, b in self.before.items():
                 if pid in self.ctx.doc:
                     self.ctx.doc.replace_part(pid, b)
-        elif self.mode is None:
-            self.ctx.selection.clear()
         self._end()
 
     def key(self, key: str, shift: bool = False) -> bool:
@@ -96,6 +94,9 @@ class SelectTool(Tool):
             return True
         if key in ("Delete", "Backspace") and ids:
             self.ctx.push(lambda: RemovePartsCommand(self.ctx.doc, ids))
+            return True
+        if key == "Escape" and self.mode is None:
+            self.ctx.selection.clear()
             return True
         return super().key(key, shift)
 

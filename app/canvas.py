@@ -1,0 +1,306 @@
+"""The drawing canvas: a graphics view in millimetres (y up) that mirrors the document.
+
+Layers, by z value, for views built on top of the editor:
+
+* ``underlay`` (z = -10): below the parts, for colour maps of potential or field;
+* parts (0 <= z < 1), in layout order, drawn by :class:`app.items.PartItem`;
+* ``overlay`` (z = 10): above the parts, for equipotentials, field lines, markers;
+* the tool preview (z = 20).
+
+Mouse and key events go to the current tool as scene points in mm.  The wheel zooms
+about the cursor; the middle button, or space with the left button, pans.
+"""
+
+from __future__ import annotations
+
+from PySide6.QtCore import QPointF, QRectF, Qt, Signal
+from PySide6.QtGui import QKeyEvent, QMouseEvent, QPainter, QTransform, QWheelEvent
+from PySide6.QtWidgets import QGraphicsItemGroup, QGraphicsScene, QGraphicsView, QWidget
+
+from . import shape_edit as se
+from .canvas_grid import draw_grid, draw_rulers, grid_steps
+from .document import Document
+from .items import PartItem
+from .preview_item import PreviewItem
+from .selection import Selection
+from .tools import TOOL_CLASSES, Tool, ToolContext
+
+PICK_PX = 7.0
+ZOOM_STEP = 1.15
+SCENE_HALF_MM = 1.0e6
+KEY_NAMES = {Qt.Key.Key_Return: "Return", Qt.Key.Key_Enter: "Enter",
+             Qt.Key.Key_Escape: "Escape", Qt.Key.Key_Delete: "Delete",
+             Qt.Key.Key_Backspace: "Backspace", Qt.Key.Key_Left: "Left",
+             Qt.Key.Key_Right: "Right", Qt.Key.Key_Up: "Up", Qt.Key.Key_Down: "Down"}
+
+
+class Canvas(QGraphicsView):
+    """The editor's view of a :class:`Document`.
+
+    Signals: ``cursor_moved(x_mm, y_mm)``, ``tool_changed(name)``, ``view_changed()``
+    (after zoom or pan).
+    """
+
+    cursor_moved = Signal(float, float)
+    tool_changed = Signal(str)
+    view_changed = Signal()
+
+    def __init__(self, ctx: ToolContext, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.ctx = ctx
+        self.doc: Document = ctx.doc
+        self.selection: Selection = ctx.selection
+        s = SCENE_HALF_MM
+        self.scene_ = QGraphicsScene(-s, -s, 2 * s, 2 * s, self)
+        self.setScene(self.scene_)
+        self.underlay = self._layer(-10.0)
+        self.overlay = self._layer(10.0)
+        self.preview_item = PreviewItem()
+        self.preview_item.setZValue(20.0)
+        self.scene_.addItem(self.preview_item)
+        self.items_by_id: dict[int, PartItem] = {}
+        self.tools: dict[str, Tool] = {cls.name: cls(ctx) for cls in TOOL_CLASSES}
+        for tool in self.tools.values():
+            tool.preview_changed.connect(self._on_preview_changed)
+        self.tool: Tool = self.tools["select"]
+        self._pan_from: QPointF | None = None
+        self._space = False
+        self._left_down = False
+        self._setup_view()
+        self._connect_model()
+        self._rebuild()
+
+    # ------------------------------------------------------------------ set-up
+
+    def _layer(self, z: float) -> QGraphicsItemGroup:
+        group = QGraphicsItemGroup()
+        group.setZValue(z)
+        group.setHandlesChildEvents(False)
+        self.scene_.addItem(group)
+        return group
+
+    def _setup_view(self) -> None:
+        self.setRenderHints(QPainter.RenderHint.Antialiasing
+                            | QPainter.RenderHint.TextAntialiasing)
+        self.setViewportUpdateMode(QGraphicsView.ViewportUpdateMode.FullViewportUpdate)
+        self.setTransformationAnchor(QGraphicsView.ViewportAnchor.NoAnchor)
+        self.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        self.setVerticalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        self.setFrameShape(QGraphicsView.Shape.NoFrame)
+        self.setMouseTracking(True)
+        self.viewport().setMouseTracking(True)
+        self.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
+        self.setTransform(QTransform.fromScale(4.0, -4.0))
+        self._sync_scale()
+
+    def _connect_model(self) -> None:
+        self.doc.part_added.connect(self._on_part_added)
+        self.doc.part_removed.connect(self._on_part_removed)
+        self.doc.part_changed.connect(self._on_part_changed)
+        self.doc.settings_changed.connect(lambda: self.viewport().update())
+        self.doc.reset.connect(self._rebuild)
+        self.selection.changed.connect(self._on_selection_changed)
+
+    # ------------------------------------------------------------------ model -> scene
+
+    def _max_abs_volts(self) -> float:
+        return max((abs(p.volts or 0.0) for _, p in self.doc.parts() if p.kind == "electrode"),
+                   default=0.0)
+
+    def _rebuild(self) -> None:
+        for item in self.items_by_id.values():
+            self.scene_.removeItem(item)
+        self.items_by_id.clear()
+        for pid in self.doc.ids():
+            self.items_by_id[pid] = PartItem(pid)
+            self.scene_.addItem(self.items_by_id[pid])
+        self._restyle_all()
+        self.zoom_to_fit()
+
+    def _restyle_all(self) -> None:
+        vmax = self._max_abs_volts()
+        n = max(len(self.doc), 1)
+        for k, pid in enumerate(self.doc.ids()):
+            item = self.items_by_id[pid]
+            item.setZValue(k / n)
+            item.highlighted = pid in self.selection
+            item.set_part(self.doc.part(pid), vmax)
+
+    def _on_part_added(self, pid: int) -> None:
+        self.items_by_id[pid] = PartItem(pid)
+        self.scene_.addItem(self.items_by_id[pid])
+        self._restyle_all()
+
+    def _on_part_removed(self, pid: int) -> None:
+        item = self.items_by_id.pop(pid, None)
+        if item is not None:
+            self.scene_.removeItem(item)
+        self._restyle_all()
+
+    def _on_part_changed(self, pid: int) -> None:
+        item = self.items_by_id[pid]
+        old = item.part
+        new = self.doc.part(pid)
+        if old is not None and (old.volts, old.kind) != (new.volts, new.kind):
+            self._restyle_all()
+        else:
+            item.set_part(new, self._max_abs_volts())
+        self._on_preview_changed()
+
+    def _on_selection_changed(self) -> None:
+        vmax = self._max_abs_volts()
+        for pid, item in self.items_by_id.items():
+            if item.highlighted != (pid in self.selection):
+                item.set_highlighted(pid in self.selection, vmax)
+        self._on_preview_changed()
+
+    def _on_preview_changed(self) -> None:
+        self.preview_item.set_preview(self.tool.preview())
+
+    # ------------------------------------------------------------------ tools
+
+    def set_tool(self, name: str) -> None:
+        """Make the tool called ``name`` current (cancelling the old one's work)."""
+        if self.tool.name == name:
+            return
+        self.tool.deactivate()
+        self.tool = self.tools[name]
+        self.tool.activate()
+        self._on_preview_changed()
+        self.ctx.status(f"{self.tool.label}: {self.tool.hint}")
+        self.tool_changed.emit(name)
+
+    # ------------------------------------------------------------------ zoom and pan
+
+    def px_per_mm(self) -> float:
+        return abs(self.transform().m11())
+
+    def zoom_by(self, factor: float, about: QPointF | None = None) -> None:
+        """Zoom by ``factor`` keeping the scene point under ``about`` (viewport px) fixed."""
+        new = self.px_per_mm() * factor
+        if not 1e-3 <= new <= 1e5:
+            return
+        anchor = about if about is not None else QPointF(self.viewport().rect().center())
+        before = self.mapToScene(anchor.toPoint())
+        self.scale(factor, factor)
+        after = self.mapToScene(anchor.toPoint())
+        self.translate_scene(after.x() - before.x(), after.y() - before.y())
+        self._sync_scale()
+
+    def translate_scene(self, dx_mm: float, dy_mm: float) -> None:
+        """Shift the view so scene content moves by (dx, dy) mm on screen."""
+        c = self.mapToScene(self.viewport().rect().center())
+        self.centerOn(c.x() - dx_mm, c.y() - dy_mm)
+
+    def zoom_to_fit(self) -> None:
+        """Show every part with a margin (an area 200 mm wide about the origin when empty)."""
+        boxes = [se.bounds(p.shape) for _, p in self.doc.parts()]
+        if boxes:
+            x0 = min(b[0] for b in boxes)
+            y0 = min(b[1] for b in boxes)
+            x1 = max(b[2] for b in boxes)
+            y1 = max(b[3] for b in boxes)
+        else:
+            x0, y0, x1, y1 = -100.0, -70.0, 100.0, 70.0
+        w, h = max(x1 - x0, 1.0), max(y1 - y0, 1.0)
+        rect = QRectF(x0 - 0.08 * w, y0 - 0.08 * h, 1.16 * w, 1.16 * h)
+        vp = self.viewport().rect()
+        avail_w, avail_h = max(vp.width() - 60, 50), max(vp.height() - 40, 50)
+        s = min(avail_w / rect.width(), avail_h / rect.height())
+        self.setTransform(QTransform.fromScale(s, -s))
+        self.centerOn(rect.center() + QPointF(-24 / (2 * s), -22 / (2 * s)))
+        self._sync_scale()
+
+    def _sync_scale(self) -> None:
+        ppm = self.px_per_mm()
+        self.ctx.tol_mm = PICK_PX / ppm
+        self.ctx.snapper.grid_mm = grid_steps(ppm)[0]
+        self.viewport().update()
+        self.view_changed.emit()
+
+    def resizeEvent(self, event) -> None:  # noqa: ANN001
+        super().resizeEvent(event)
+        self.viewport().update()
+
+    # ------------------------------------------------------------------ painting
+
+    def drawBackground(self, painter: QPainter, rect: QRectF) -> None:
+        draw_grid(painter, rect, self.px_per_mm(),
+                  self.doc.settings.symmetry == "axisymmetric")
+
+    def drawForeground(self, painter: QPainter, rect: QRectF) -> None:
+        painter.save()
+        painter.resetTransform()
+        vp = self.viewport()
+        names = ("r", "z") if self.doc.settings.symmetry == "axisymmetric" else ("x", "y")
+        draw_rulers(painter, self.viewportTransform(), vp.width(), vp.height(),
+                    self.px_per_mm(), names)
+        painter.restore()
+
+    # ------------------------------------------------------------------ events
+
+    def scene_point(self, pos: QPointF) -> tuple[float, float]:
+        p = self.mapToScene(pos.toPoint())
+        return (p.x(), p.y())
+
+    def wheelEvent(self, event: QWheelEvent) -> None:
+        steps = event.angleDelta().y() / 120.0
+        if steps:
+            self.zoom_by(ZOOM_STEP ** steps, event.position())
+        event.accept()
+
+    def mousePressEvent(self, event: QMouseEvent) -> None:
+        b = event.button()
+        if b == Qt.MouseButton.MiddleButton or (b == Qt.MouseButton.LeftButton and self._space):
+            self._pan_from = event.position()
+            self.viewport().setCursor(Qt.CursorShape.ClosedHandCursor)
+        elif b == Qt.MouseButton.LeftButton:
+            self._left_down = True
+            shift = bool(event.modifiers() & Qt.KeyboardModifier.ShiftModifier)
+            self.tool.press(self.scene_point(event.position()), shift)
+        event.accept()
+
+    def mouseMoveEvent(self, event: QMouseEvent) -> None:
+        pt = self.scene_point(event.position())
+        self.cursor_moved.emit(*pt)
+        if self._pan_from is not None:
+            d = event.position() - self._pan_from
+            self._pan_from = event.position()
+            s = self.px_per_mm()
+            self.translate_scene(d.x() / s, -d.y() / s)
+            self.view_changed.emit()
+        else:
+            self.tool.move(pt, self._left_down)
+        event.accept()
+
+    def mouseReleaseEvent(self, event: QMouseEvent) -> None:
+        if self._pan_from is not None and event.button() in (Qt.MouseButton.MiddleButton,
+                                                             Qt.MouseButton.LeftButton):
+            self._pan_from = None
+            self.viewport().unsetCursor()
+        elif event.button() == Qt.MouseButton.LeftButton:
+            self._left_down = False
+            self.tool.release(self.scene_point(event.position()))
+        event.accept()
+
+    def mouseDoubleClickEvent(self, event: QMouseEvent) -> None:
+        if event.button() == Qt.MouseButton.LeftButton:
+            self.tool.double_click(self.scene_point(event.position()))
+        event.accept()
+
+    def keyPressEvent(self, event: QKeyEvent) -> None:
+        if event.key() == Qt.Key.Key_Space and not event.isAutoRepeat():
+            self._space = True
+            self.viewport().setCursor(Qt.CursorShape.OpenHandCursor)
+            return
+        name = KEY_NAMES.get(Qt.Key(event.key()))
+        shift = bool(event.modifiers() & Qt.KeyboardModifier.ShiftModifier)
+        if name is None or not self.tool.key(name, shift):
+            super().keyPressEvent(event)
+
+    def keyReleaseEvent(self, event: QKeyEvent) -> None:
+        if event.key() == Qt.Key.Key_Space and not event.isAutoRepeat():
+            self._space = False
+            self.viewport().unsetCursor()
+            return
+        super().keyReleaseEvent(event)

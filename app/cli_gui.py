@@ -1,0 +1,135 @@
+"""``stresslens [LAYOUT] [--screenshot OUT.png] [--size WxH]``: the editor window.
+
+With ``--screenshot`` the window opens (offscreen when there is no display), waits
+until it is ready (:meth:`app.main_window.MainWindow.is_ready`: the first results
+shown, when a solver is attached), saves a PNG of itself and exits 0.  Without a
+display and without ``--screenshot`` it explains what to do instead of letting Qt
+abort.  Exit status: 0 done, 2 bad arguments or a bad layout, 3 no display, 1 other.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+import time
+from pathlib import Path
+
+NO_DISPLAY_MESSAGE = (
+    "stresslens: no display found (neither DISPLAY nor WAYLAND_DISPLAY is set), so the "
+    "window cannot open.\n"
+    "  - For a picture of the editor: stresslens LAYOUT --screenshot OUT.png\n"
+    "  - For results without a window: stresslens solve LAYOUT, or stresslens report "
+    "LAYOUT -o OUT.pdf\n"
+    "  - 'make run' does both on a machine without a display.")
+
+
+def add_arguments(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("layout", nargs="?", help="layout file (*.layout.json) to open")
+    parser.add_argument("--screenshot", metavar="OUT.png",
+                        help="save a picture of the window to this PNG file and exit")
+    parser.add_argument("--size", default="1400x900", metavar="WxH",
+                        help="window size in pixels for --screenshot (default 1400x900)")
+    parser.add_argument("--timeout", type=float, default=120.0, metavar="S",
+                        help="longest wait, in seconds, for the first results before a "
+                             "screenshot is taken anyway (default 120)")
+
+
+def parse_size(text: str) -> tuple[int, int]:
+    """'1400x900' -> (1400, 900); ValueError with a message otherwise."""
+    try:
+        w, h = (int(v) for v in text.lower().split("x"))
+    except ValueError:
+        raise ValueError(f"--size must look like 1400x900, not '{text}'") from None
+    if not (200 <= w <= 8000 and 150 <= h <= 8000):
+        raise ValueError(f"--size {text}: width must lie in 200..8000 and height in "
+                         f"150..8000 pixels")
+    return w, h
+
+
+def has_display() -> bool:
+    """False on Linux with no X11/Wayland display and no Qt platform chosen."""
+    if os.environ.get("QT_QPA_PLATFORM") or not sys.platform.startswith("linux"):
+        return True
+    return bool(os.environ.get("DISPLAY") or os.environ.get("WAYLAND_DISPLAY"))
+
+
+def run(args: argparse.Namespace) -> int:
+    try:
+        size = parse_size(args.size)
+    except ValueError as exc:
+        print(f"stresslens: {exc}", file=sys.stderr)
+        return 2
+    if not has_display():
+        if not args.screenshot:
+            print(NO_DISPLAY_MESSAGE, file=sys.stderr)
+            return 3
+        os.environ["QT_QPA_PLATFORM"] = "offscreen"
+    if args.screenshot:
+        return _screenshot(args.layout, Path(args.screenshot), size, args.timeout)
+    return _interactive(args.layout)
+
+
+def make_app():  # noqa: ANN201 - QApplication
+    """The QApplication (created once), named so settings land in one place."""
+    from PySide6.QtWidgets import QApplication
+
+    from .icons import APP_ICON, icon
+
+    app = QApplication.instance() or QApplication(sys.argv[:1])
+    app.setOrganizationName("Stresslens")
+    app.setApplicationName("Stresslens")
+    app.setWindowIcon(icon(APP_ICON))
+    return app
+
+
+def build_window(layout_path: str | None):  # noqa: ANN201 - MainWindow
+    """The editor window with ``layout_path`` loaded (an empty layout when None).
+
+    A bad file is reported in a dialog by the window itself; the window stays open.
+    """
+    from .main_window import MainWindow
+
+    window = MainWindow()
+    if layout_path:
+        window.files.load(layout_path)
+    return window
+
+
+def _interactive(layout_path: str | None) -> int:
+    app = make_app()
+    window = build_window(layout_path)
+    window.show()
+    return int(app.exec())
+
+
+def _screenshot(layout_path: str | None, out: Path, size: tuple[int, int],
+                timeout_s: float) -> int:
+    from solver.layout import LayoutError, load_layout
+
+    if layout_path:
+        try:
+            load_layout(layout_path)
+        except LayoutError as exc:
+            print(f"stresslens: {exc}", file=sys.stderr)
+            return 2
+    app = make_app()
+    window = build_window(layout_path)
+    window.resize(*size)
+    window.show()
+    app.processEvents()
+    window.canvas.zoom_to_fit()
+    deadline = time.monotonic() + timeout_s
+    while not window.is_ready() and time.monotonic() < deadline:
+        app.processEvents()
+        time.sleep(0.01)
+    ready = window.is_ready()
+    app.processEvents()
+    if not window.grab().save(str(out), "PNG"):
+        print(f"stresslens: cannot write the screenshot to {out}", file=sys.stderr)
+        return 1
+    note = "" if ready else f" (results not ready after {timeout_s:g} s; editor shown as is)"
+    print(f"stresslens: window screenshot saved to {out}{note}")
+    window.hide()
+    window.deleteLater()
+    return 0

@@ -1,0 +1,122 @@
+"""Scene items for parts: the outline and fill of one part, and its name label.
+
+Scene coordinates are millimetres with y up (the view flips the y axis), so text is
+drawn with ``ItemIgnoresTransformations`` to stay upright and of constant size.
+Pens are cosmetic: outlines are as thin on screen at every zoom.
+"""
+
+from __future__ import annotations
+
+from PySide6.QtCore import QPointF, QRectF, Qt
+from PySide6.QtGui import QBrush, QColor, QFont, QPainter, QPainterPath, QPen
+from PySide6.QtWidgets import QGraphicsItem, QGraphicsPathItem, QStyleOptionGraphicsItem, QWidget
+
+from solver.layout import Part
+
+from . import palette
+from . import shape_edit as se
+from .units import part_value_text
+
+
+def shape_path(part: Part) -> tuple[QPainterPath, bool]:
+    """The part's region as a painter path (holes cut out); False when it is not valid.
+
+    An invalid shape (a corner radius too large, a ring crossing itself) is drawn
+    through its vertices so the user can still see and fix it.
+    """
+    path = QPainterPath()
+    path.setFillRule(Qt.FillRule.OddEvenFill)
+    reg = se.region(part.shape)
+    if reg is not None and reg.is_valid:
+        for ring in (reg.exterior, *reg.interiors):
+            _add_ring(path, list(ring.coords), closed=True)
+        return path, True
+    pts = [p for _, p in se.vertices(part.shape)]
+    if pts:
+        _add_ring(path, pts, closed=part.shape.type != "path")
+    return path, False
+
+
+def _add_ring(path: QPainterPath, pts: list, closed: bool) -> None:  # noqa: ANN001
+    path.moveTo(QPointF(*pts[0]))
+    for x, y in pts[1:]:
+        path.lineTo(QPointF(x, y))
+    if closed:
+        path.closeSubpath()
+
+
+class PartLabelItem(QGraphicsItem):
+    """A part's name and value, upright and of constant screen size, with a soft halo."""
+
+    def __init__(self, parent: QGraphicsItem) -> None:
+        super().__init__(parent)
+        self.setFlag(QGraphicsItem.GraphicsItemFlag.ItemIgnoresTransformations)
+        self.lines: list[str] = []
+        self.font = QFont()
+        self.font.setPointSizeF(8.5)
+        self._rect = QRectF()
+
+    def set_text(self, lines: list[str]) -> None:
+        self.prepareGeometryChange()
+        self.lines = lines
+        from PySide6.QtGui import QFontMetricsF
+        fm = QFontMetricsF(self.font)
+        w = max((fm.horizontalAdvance(t) for t in lines), default=0.0)
+        h = fm.height() * len(lines)
+        self._rect = QRectF(-w / 2 - 3, -h / 2 - 1, w + 6, h + 2)
+        self.update()
+
+    def boundingRect(self) -> QRectF:
+        return self._rect
+
+    def paint(self, painter: QPainter, option: QStyleOptionGraphicsItem,
+              widget: QWidget | None = None) -> None:
+        painter.setPen(Qt.PenStyle.NoPen)
+        painter.setBrush(palette.LABEL_HALO)
+        painter.drawRoundedRect(self._rect, 3, 3)
+        painter.setFont(self.font)
+        painter.setPen(palette.LABEL_TEXT)
+        painter.drawText(self._rect, Qt.AlignmentFlag.AlignCenter, "\n".join(self.lines))
+
+
+class PartItem(QGraphicsPathItem):
+    """One part on the canvas: outline and fill in the colours of its kind, and a label."""
+
+    def __init__(self, pid: int) -> None:
+        super().__init__()
+        self.pid = pid
+        self.part: Part | None = None
+        self.valid = True
+        self.highlighted = False
+        self.label = PartLabelItem(self)
+        self.setAcceptedMouseButtons(Qt.MouseButton.NoButton)
+
+    def set_part(self, part: Part, max_abs_volts: float) -> None:
+        """Show ``part``; ``max_abs_volts`` scales the electrode fill hint."""
+        self.part = part
+        path, self.valid = shape_path(part)
+        self.setPath(path)
+        self._style(max_abs_volts)
+        self.label.set_text([part.name, part_value_text(part.kind, part.volts, part.charge,
+                                                        part.permittivity)])
+        reg = se.region(part.shape)
+        at = reg.representative_point() if reg is not None and reg.is_valid else None
+        self.label.setPos(QPointF(at.x, at.y) if at is not None else path.boundingRect().center())
+
+    def set_highlighted(self, on: bool, max_abs_volts: float) -> None:
+        self.highlighted = on
+        self._style(max_abs_volts)
+
+    def _style(self, max_abs_volts: float) -> None:
+        assert self.part is not None
+        line, fill = palette.part_colours(self.part.kind, self.part.volts, max_abs_volts)
+        pen = QPen(palette.SELECTION if self.highlighted else line,
+                   2.2 if self.highlighted else 1.3)
+        pen.setCosmetic(True)
+        pen.setJoinStyle(Qt.PenJoinStyle.RoundJoin)
+        if not self.valid:
+            pen = QPen(palette.INVALID, 1.6, Qt.PenStyle.DashLine)
+            pen.setCosmetic(True)
+            fill = QColor(fill.red(), fill.green(), fill.blue(), 70)
+        self.setPen(pen)
+        self.setBrush(QBrush(fill))

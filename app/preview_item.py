@@ -1,0 +1,90 @@
+"""The scene item that draws a tool's preview: shapes in progress, rubber bands, handles.
+
+It paints in viewport pixels (mapping the mm points through the painter's transform),
+so handles keep their size and lines stay crisp at every zoom.
+"""
+
+from __future__ import annotations
+
+from PySide6.QtCore import QPointF, QRectF, Qt
+from PySide6.QtGui import QPainter, QPen, QPolygonF, QTransform
+from PySide6.QtWidgets import QGraphicsItem, QStyleOptionGraphicsItem, QWidget
+
+from solver.layout import Part
+
+from . import palette
+from .items import shape_path
+from .tools.base import Preview
+
+HANDLE_PX = 7.0
+_HUGE = QRectF(-1.0e7, -1.0e7, 2.0e7, 2.0e7)
+
+
+class PreviewItem(QGraphicsItem):
+    """Draws the current tool's :class:`Preview` above everything else."""
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.preview: Preview | None = None
+        self.setAcceptedMouseButtons(Qt.MouseButton.NoButton)
+
+    def set_preview(self, preview: Preview | None) -> None:
+        self.preview = preview
+        self.update()
+
+    def boundingRect(self) -> QRectF:
+        return _HUGE
+
+    def paint(self, painter: QPainter, option: QStyleOptionGraphicsItem,
+              widget: QWidget | None = None) -> None:
+        p = self.preview
+        if p is None:
+            return
+        t = painter.worldTransform()
+        if p.shape is not None:
+            path, _ = shape_path(Part("preview", "electrode", p.shape, volts=0.0))
+            pen = QPen(palette.PREVIEW, 1.5, Qt.PenStyle.DashLine)
+            pen.setCosmetic(True)
+            painter.setPen(pen)
+            painter.setBrush(palette.PREVIEW_FILL)
+            painter.drawPath(path)
+        painter.save()
+        painter.resetTransform()
+        painter.setRenderHint(QPainter.RenderHint.Antialiasing)
+        if p.points:
+            self._points(painter, t, p)
+        if p.box is not None:
+            self._box(painter, t, p)
+        if p.handles:
+            self._handles(painter, t, p)
+        painter.restore()
+
+    @staticmethod
+    def _points(painter: QPainter, t: QTransform, p: Preview) -> None:
+        poly = QPolygonF([t.map(QPointF(*q)) for q in p.points])
+        painter.setPen(QPen(palette.PREVIEW, 1.5, Qt.PenStyle.DashLine))
+        painter.setBrush(palette.PREVIEW_FILL if p.closed else Qt.BrushStyle.NoBrush)
+        (painter.drawPolygon if p.closed else painter.drawPolyline)(poly)
+        painter.setPen(QPen(palette.PREVIEW, 1.2))
+        painter.setBrush(palette.HANDLE_FILL)
+        for q in list(poly)[:-1] or list(poly):
+            painter.drawEllipse(q, 3.0, 3.0)
+
+    @staticmethod
+    def _box(painter: QPainter, t: QTransform, p: Preview) -> None:
+        assert p.box is not None
+        a, b = t.map(QPointF(*p.box[0])), t.map(QPointF(*p.box[1]))
+        painter.setPen(QPen(palette.SELECTION, 1.0, Qt.PenStyle.DashLine))
+        painter.setBrush(palette.PREVIEW_FILL)
+        painter.drawRect(QRectF(a, b).normalized())
+
+    @staticmethod
+    def _handles(painter: QPainter, t: QTransform, p: Preview) -> None:
+        h = HANDLE_PX
+        for ref, q in p.handles:
+            c = t.map(QPointF(*q))
+            active = ref == p.active
+            painter.setPen(QPen(palette.SELECTION, 1.4))
+            painter.setBrush(palette.SELECTION if active else palette.HANDLE_FILL)
+            s = h + 2 if active else h
+            painter.drawRect(QRectF(c.x() - s / 2, c.y() - s / 2, s, s))
