@@ -20,7 +20,6 @@ number is shown.
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING
 
@@ -35,7 +34,8 @@ from .air import (
     critical_field_kV_per_mm,
     equivalent_pressure_bar,
 )
-from .inception_path import GAS, OUTSIDE, FieldProbe, GasPath, trace_gas_path
+from .inception_path import FieldProbe, GasPath, trace_gas_path
+from .inception_probe import gas_field_sampler, probe_from_solution
 from .layout import PeekLimit
 
 if TYPE_CHECKING:
@@ -244,62 +244,6 @@ def inception_to_json(inc: Inception, max_points: int = 400) -> dict:
 # --------------------------------------------------------------------------- on a solution
 
 
-def probe_from_solution(solution: Solution) -> FieldProbe:
-    """A :class:`FieldProbe` over a solved layout: the gas-side field
-    (:func:`gas_field_sampler`), the exact part outlines (shapely) for the bodies, the
-    grid's extent for the domain."""
-    import shapely
-
-    from .geometry import layout_outlines
-
-    polygons = [o.polygon for o in layout_outlines(solution.layout)]
-    x0, x1 = float(solution.x_mm[0]), float(solution.x_mm[-1])
-    y0, y1 = float(solution.y_mm[0]), float(solution.y_mm[-1])
-
-    def region(points: np.ndarray) -> np.ndarray:
-        x, y = points[:, 0], points[:, 1]
-        out = np.where((x < x0) | (x > x1) | (y < y0) | (y > y1), OUTSIDE, GAS)
-        for k, poly in enumerate(polygons):
-            out = np.where((out == GAS) & shapely.intersects_xy(poly, x, y), k, out)
-        return out
-
-    names = tuple(p.name for p in solution.layout.parts)
-    return FieldProbe(gas_field_sampler(solution), region, names,
-                      solution.layout.symmetry == "axisymmetric")
-
-
-def gas_field_sampler(solution: Solution) -> Callable[[np.ndarray], np.ndarray]:
-    r"""``f(points (N, 2) mm) -> E (N, 2) kV/mm``: bilinear in the medium nodes only.
-
-    The grid field is zero at nodes inside conductors, so plain bilinear interpolation
-    in a cell cut by an outline drags the field towards zero right where the avalanche
-    grows fastest.  Here the weights of conductor nodes are dropped and the rest
-    renormalised, :math:`E(p) = \sum_{i \in gas} w_i E_i / \sum_{i \in gas} w_i`, a
-    first-order extrapolation of the smooth gas-side field up to the surface.
-    """
-    x, y = solution.x_mm, solution.y_mm
-    gas = (solution.conductor < 0).astype(float)
-    ex, ey = solution.Ex_kV_per_mm, solution.Ey_kV_per_mm
-
-    def field(points: np.ndarray) -> np.ndarray:
-        ix = np.clip(np.searchsorted(x, points[:, 0]) - 1, 0, len(x) - 2)
-        iy = np.clip(np.searchsorted(y, points[:, 1]) - 1, 0, len(y) - 2)
-        tx = np.clip((points[:, 0] - x[ix]) / (x[ix + 1] - x[ix]), 0.0, 1.0)
-        ty = np.clip((points[:, 1] - y[iy]) / (y[iy + 1] - y[iy]), 0.0, 1.0)
-        corners = [(iy, ix, (1 - tx) * (1 - ty)), (iy, ix + 1, tx * (1 - ty)),
-                   (iy + 1, ix, (1 - tx) * ty), (iy + 1, ix + 1, tx * ty)]
-        w_gas = sum(w * gas[j, i] for j, i, w in corners)
-        use_all = w_gas <= 1e-12
-        out = np.zeros((len(points), 2))
-        for j, i, w in corners:
-            wk = np.where(use_all, w, w * gas[j, i])
-            out[:, 0] += wk * ex[j, i]
-            out[:, 1] += wk * ey[j, i]
-        return out / np.where(use_all, 1.0, w_gas)[:, None]
-
-    return field
-
-
 def _air_state(solution: Solution, pressure_kPa: float | None,
                temperature_C: float | None) -> tuple[float, float]:
     limit = solution.layout.limit
@@ -377,6 +321,13 @@ def _start_points(solution: Solution) -> list[tuple[str, np.ndarray, np.ndarray,
              float(traces[k].E_kV_per_mm[i])) for k, i in sorted(picks)]
 
 
+def _reversed(path: GasPath) -> GasPath:
+    """The same path run from its other end."""
+    s = path.s_mm[-1] - path.s_mm[::-1]
+    return GasPath(path.xy_mm[::-1].copy(), s, path.E_kV_per_mm[::-1].copy(), path.ends_at,
+                   path.end_body)
+
+
 def estimate_inception_at(solution: Solution, start: tuple[str, np.ndarray, np.ndarray, float],
                           pressure_kPa: float | None = None, temperature_C: float | None = None,
                           K: float = STREAMER_K, probe: FieldProbe | None = None) -> Inception:
@@ -392,9 +343,13 @@ def estimate_inception_at(solution: Solution, start: tuple[str, np.ndarray, np.n
     h0 = 0.25 * _local_spacing_mm(solution, np.asarray(xy))
     extent = float(np.hypot(np.ptp(solution.x_mm), np.ptp(solution.y_mm)))
     path = trace_gas_path(probe, xy, normal, h0, extent, start_field_kV_per_mm=E_surface)
-    S, peak, length = path_inception(path, p_bar, K)
     ends_at, end_volts = _end_volts(solution, path, probe)
     start_volts = _conductor_volts(solution, part)
+    if end_volts is not None and path.E_kV_per_mm[-1] > path.E_kV_per_mm[0]:
+        # same field line, same integral: report it from its stressed end
+        path, ends_at, part = _reversed(path), f"conductor {part}", probe.names[path.end_body]
+        start_volts, end_volts = end_volts, start_volts
+    S, peak, length = path_inception(path, p_bar, K)
     volts = {p.name: S * float(p.volts) for p in solution.layout.parts
              if p.kind == "electrode" and p.volts is not None}
     return Inception(
