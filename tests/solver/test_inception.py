@@ -371,3 +371,40 @@ def test_estimate_uses_the_air_of_the_peek_limit():
     std = estimate_inception(sol, probe=probe)
     assert low.p_bar == pytest.approx(equivalent_pressure_bar(80.0, 40.0))
     assert 0.6 < low.scale / std.scale < 0.9
+
+
+def test_a_path_traced_from_the_weaker_end_is_reported_from_the_stressed_end():
+    # the integral along one field line does not depend on the direction of travel
+    # (calculus); the report starts where the field is highest, on the core
+    from solver.inception import estimate_inception_at
+
+    r, R, volts = 1.0, 50.0, 20000.0
+    sol = analytic_coax_solution(r, R, volts)
+    probe = coax_probe(r, R, volts, SOL_NAMES)
+    inward = np.array([-math.cos(0.3), -math.sin(0.3)])
+    E_sheath = volts / 1000 / (R * math.log(R / r))
+    from_sheath = estimate_inception_at(sol, ("Sheath", -R * inward, inward, E_sheath),
+                                        probe=probe)
+    core_n = -inward
+    from_core = estimate_inception_at(sol, ("Core", r * core_n, core_n, E_sheath * R / r),
+                                      probe=probe)
+    assert from_sheath.start_part == "Core" and from_sheath.ends_at == "conductor Sheath"
+    assert from_sheath.path_mm[0] == pytest.approx(r * core_n, abs=1e-3)
+    assert from_sheath.scale == pytest.approx(from_core.scale, rel=2e-3)
+
+
+def test_gas_field_sampler_ignores_the_zero_field_inside_conductors():
+    # a uniform field of 2 kV/mm above a conductor filling y < 0 (grid nodes at y <= 0 are
+    # conductor, with zero field there, as the solver stores it); plain bilinear interpolation
+    # in the cut cell would give 2 kV/mm times the gas weight (common practice, no source)
+    from dataclasses import replace
+
+    from solver.inception import gas_field_sampler
+
+    sol = analytic_coax_solution(1.0, 50.0, 1.0)
+    yy = np.broadcast_to(sol.y_mm[:, None], sol.phi.shape)
+    conductor = np.where(yy <= 0.0, 0, -1)
+    ey = np.where(conductor < 0, 2.0, 0.0)
+    flat = replace(sol, conductor=conductor, Ex_kV_per_mm=np.zeros_like(ey), Ey_kV_per_mm=ey)
+    pts = np.array([[0.1, 0.05], [3.3, 0.4], [7.0, 2.0]])
+    assert gas_field_sampler(flat)(pts) == pytest.approx(np.array([[0, 2.0]] * 3))
