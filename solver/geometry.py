@@ -200,19 +200,43 @@ def validate_geometry(layout: Layout) -> tuple[PartOutline, ...]:
     if not layout.parts:
         return outlines
     for part, ol in zip(layout.parts, outlines, strict=True):
-        x0, y0, x1, y1 = ol.polygon.bounds
+        x0 = ol.polygon.bounds[0]
         if layout.symmetry == "axisymmetric" and x0 < -1e-9:
             raise LayoutError(f"part '{part.name}': reaches r = {x0:.4g} mm; in an "
                               f"axisymmetric layout x is the radius and must be >= 0")
-        b = layout.boundary
-        if b.type == "box" and b.min and b.max:
-            if x0 < b.min[0] - 1e-9 or y0 < b.min[1] - 1e-9 or x1 > b.max[0] + 1e-9 \
-                    or y1 > b.max[1] + 1e-9:
-                raise LayoutError(f"part '{part.name}': lies partly outside the boundary box")
+        _check_in_box(layout, part, ol.polygon)
     if not any(p.is_conductor for p in layout.parts):
         raise LayoutError("layout has no conductor: add at least one electrode")
     _check_pairs(layout, outlines)
     return outlines
+
+
+def _check_in_box(layout: Layout, part: Part, poly: ShPolygon) -> None:
+    """A part lies inside the boundary box; a conductor touches no grounded wall.
+
+    A conductor at another potential than a grounded (fixed-voltage) box may not touch
+    its walls; an electrode at the box's voltage and any part at an insulating wall
+    may.  In an axisymmetric layout a box side at r = 0 is the axis, not a wall.
+    """
+    b = layout.boundary
+    if b.type != "box" or b.min is None or b.max is None:
+        return
+    x0, y0, x1, y1 = poly.bounds
+    gaps = {"left": x0 - b.min[0], "bottom": y0 - b.min[1],
+            "right": b.max[0] - x1, "top": b.max[1] - y1}
+    if min(gaps.values()) < -1e-9:
+        raise LayoutError(f"part '{part.name}': lies partly outside the boundary box")
+    if layout.symmetry == "axisymmetric" and b.min[0] == 0.0:
+        del gaps["left"]
+    at_box_volts = part.kind == "electrode" and part.volts == b.volts
+    if b.volts is None or not part.is_conductor or at_box_volts:
+        return
+    tol = 1.5 * _SAGITTA_REL * largest_arc_radius(part.shape) + _GEOM_TOL_MM
+    walls = [w for w, g in gaps.items() if g <= tol]
+    if walls:
+        raise LayoutError(f"part '{part.name}': touches the {walls[0]} wall of the boundary "
+                          f"box, which is held at {b.volts:g} V; move it inside, or make "
+                          f"the walls insulating (volts null)")
 
 
 def largest_arc_radius(shape: Shape) -> float:

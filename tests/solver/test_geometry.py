@@ -21,7 +21,18 @@ from solver.geometry import (
     shape_polygon,
     validate_geometry,
 )
-from solver.layout import Circle, Ellipse, Layout, LayoutError, Part, Path, Polygon, Rect, Shape
+from solver.layout import (
+    Boundary,
+    Circle,
+    Ellipse,
+    Layout,
+    LayoutError,
+    Part,
+    Path,
+    Polygon,
+    Rect,
+    Shape,
+)
 
 REL = 1e-4
 
@@ -184,3 +195,33 @@ def test_electrode_enclosed_by_a_grounded_shell_is_accepted() -> None:
 def test_empty_layout_is_a_blank_sketch() -> None:
     # a new document has no parts yet; it may be saved and reopened
     assert validate_geometry(Layout(parts=())) == ()
+
+
+def _in_box(volts: float | None, symmetry: str = "planar", part_volts: float = 500.0,
+            x_min: float = -10.0) -> Layout:
+    """A rod of radius 2 resting on the bottom wall (y = -10) of a 20 mm box."""
+    rod = Part("Rod", "electrode", Circle((max(x_min, 0.0) + 5.0, -8.0), 2.0), volts=part_volts)
+    return Layout(parts=(rod,), symmetry=symmetry,  # type: ignore[arg-type]
+                  boundary=Boundary("box", (x_min, -10.0), (10.0, 10.0), volts))
+
+
+def test_conductor_touching_a_grounded_wall_is_refused() -> None:
+    with pytest.raises(LayoutError, match="'Rod': touches the bottom wall.*0 V"):
+        validate_geometry(_in_box(0.0))
+
+
+def test_conductor_touching_an_insulating_wall_is_accepted() -> None:
+    # a symmetry plane through a conductor is legitimate (DESIGN.md section 2)
+    assert len(validate_geometry(_in_box(None))) == 1
+
+
+def test_electrode_at_the_box_voltage_may_touch_its_wall() -> None:
+    assert len(validate_geometry(_in_box(0.0, part_volts=0.0))) == 1
+
+
+def test_axis_side_of_an_axisymmetric_box_is_no_wall() -> None:
+    tip = Part("Tip", "electrode", Polygon(((0.0, 0.0), (2.0, 0.0), (2.0, 5.0), (0.0, 5.0))),
+               volts=100.0)
+    layout = Layout(parts=(tip,), symmetry="axisymmetric",
+                    boundary=Boundary("box", (0.0, -10.0), (10.0, 10.0), 0.0))
+    assert len(validate_geometry(layout)) == 1
