@@ -367,17 +367,27 @@ def estimate_inception(solution: Solution, pressure_kPa: float | None = None,
     point and every hot spot on a conductor.  ``probe`` defaults to
     :func:`probe_from_solution`.
 
+    A start point with no gas next to it (parts touching) is passed over.
+
     Raises
     ------
-    InceptionError : no conductor surface carries any field.
+    InceptionError : no conductor surface carries any field, or no start point has a path
+        into the gas (the message lists why).
     """
     starts = [s for s in _start_points(solution) if s[3] > 0.0]
     if not starts:
         raise InceptionError("no conductor surface carries any field: every electrode is at "
                              "the same potential")
     probe = probe_from_solution(solution) if probe is None else probe
-    results = [estimate_inception_at(solution, s, pressure_kPa, temperature_C, K, probe)
-               for s in starts]
+    results, problems = [], []
+    for start in starts:
+        try:
+            results.append(estimate_inception_at(solution, start, pressure_kPa, temperature_C,
+                                                 K, probe))
+        except ValueError as exc:  # InceptionError included
+            problems.append(f"{start[0]}: {exc}")
+    if not results:
+        raise InceptionError("no inception path could be traced: " + "; ".join(problems))
     return min(results, key=lambda inc: inc.scale)
 
 

@@ -408,3 +408,22 @@ def test_gas_field_sampler_ignores_the_zero_field_inside_conductors():
     flat = replace(sol, conductor=conductor, Ex_kV_per_mm=np.zeros_like(ey), Ey_kV_per_mm=ey)
     pts = np.array([[0.1, 0.05], [3.3, 0.4], [7.0, 2.0]])
     assert gas_field_sampler(flat)(pts) == pytest.approx(np.array([[0, 2.0]] * 3))
+
+
+def test_estimate_refuses_a_layout_without_voltage_with_a_reason():
+    from solver.inception import estimate_inception
+
+    sol = analytic_coax_solution(1.0, 50.0, 0.0)
+    with pytest.raises(InceptionError, match="same potential"):
+        estimate_inception(sol, probe=coax_probe(1.0, 50.0, 0.0, SOL_NAMES))
+
+
+def test_estimate_explains_when_no_start_point_has_gas_next_to_it():
+    # the core is wrapped in a body everywhere (region reports solid all around it)
+    from solver.inception import estimate_inception
+
+    sol = analytic_coax_solution(1.0, 50.0, 1000.0)
+    probe = coax_probe(1.0, 50.0, 1000.0, SOL_NAMES)
+    walled = FieldProbe(probe.field, lambda p: np.zeros(len(p), dtype=int), probe.names)
+    with pytest.raises(InceptionError, match="no gas next to the surface"):
+        estimate_inception(sol, probe=walled)
