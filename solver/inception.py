@@ -19,24 +19,21 @@ number is shown.
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING
 
 import numpy as np
-from numpy.typing import ArrayLike
-from scipy.optimize import brentq
 
-from .air import (
-    SCHUMANN_C,
-    SCHUMANN_E0_KV_PER_CM_BAR,
-    STREAMER_K,
-    critical_field_kV_per_mm,
-    equivalent_pressure_bar,
-)
+from .air import SCHUMANN_C, STREAMER_K, equivalent_pressure_bar
 from .inception_path import FieldProbe, GasPath, trace_gas_path
 from .inception_probe import gas_field_sampler, probe_from_solution
 from .layout import PeekLimit
+from .streamer import (
+    InceptionError,
+    inception_scale,
+    ionisation_length_mm,
+    streamer_integral,
+)
 
 if TYPE_CHECKING:
     from .solution import Solution
@@ -50,114 +47,6 @@ INCEPTION_CAUTION = (
 )
 """Caution to show with every inception figure (GUI, reports, command line)."""
 
-_MAX_DOUBLINGS = 200
-
-
-class InceptionError(ValueError):
-    """No inception estimate is possible; the message says why."""
-
-
-# --------------------------------------------------------------------------- core
-
-
-def _segment_lengths(n: int, ds_mm: float | ArrayLike) -> np.ndarray:
-    ds = np.asarray(ds_mm, dtype=float)
-    if ds.ndim == 0:
-        ds = np.full(max(n - 1, 0), float(ds))
-    if ds.shape != (max(n - 1, 0),):
-        raise ValueError(f"need {n - 1} segment lengths for {n} field samples, got {ds.shape}")
-    if np.any(~(ds >= 0.0)):
-        raise ValueError("segment lengths along a path must be non-negative (mm)")
-    return ds
-
-
-def streamer_integral(E_along_path_kV_per_mm: ArrayLike, ds_mm: float | ArrayLike,
-                      p_bar: float, C: float = SCHUMANN_C) -> float:
-    r"""Ionisation integral :math:`\int \alpha_{eff}\, ds` along a path (dimensionless).
-
-    .. math::
-        \int \alpha_{eff}\, ds = \int C p \left[\max\left(\frac{E}{p} - \left(\frac{E}{p}
-        \right)_0, 0\right)\right]^2 ds
-
-    The field is taken linear between samples and each segment integrated exactly
-    (no error from where the integrand switches on between samples).
-
-    Parameters
-    ----------
-    E_along_path_kV_per_mm : field magnitude at the M path samples, kV/mm peak.
-    ds_mm : segment lengths between samples (M-1 values, or one spacing), mm.
-    p_bar : pressure of air at 20 degC with the same density, bar.
-    C : coefficient of Schumann's fit, cm bar/kV^2 (see :func:`solver.air.alpha_eff_per_cm`).
-    """
-    E = np.asarray(E_along_path_kV_per_mm, dtype=float)
-    ds = _segment_lengths(E.size, ds_mm)
-    if E.size < 2:
-        return 0.0
-    x = E * 10.0 / p_bar - SCHUMANN_E0_KV_PER_CM_BAR  # excess reduced field, kV/(cm bar)
-    return float(C * p_bar * np.sum(ds / 10.0 * _mean_square_positive(x[:-1], x[1:])))
-
-
-def _mean_square_positive(a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    r"""Mean of :math:`\max(x, 0)^2` over a segment where x runs linearly from a to b."""
-    both = (a * a + a * b + b * b) / 3.0
-    hi = np.maximum(a, b)
-    lo = np.minimum(a, b)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        crossing = hi**3 / (3.0 * (hi - lo))  # positive fraction hi/(hi-lo) times hi^2/3
-    return np.where(lo >= 0.0, both, np.where(hi > 0.0, crossing, 0.0))
-
-
-def inception_scale(E_unit_kV_per_mm: ArrayLike, ds_mm: float | ArrayLike, p_bar: float,
-                    K: float = STREAMER_K, C: float = SCHUMANN_C) -> float:
-    r"""The factor S on all potentials at which the streamer integral along a path reaches K.
-
-    With the field :math:`S\,E_1(s)` the integral :math:`I(S)` is zero up to
-    :math:`S_0 = E_{crit} / \max E_1` and increases monotonically beyond; the root of
-    :math:`I(S) = K` is bracketed by doubling from :math:`S_0` and found with Brent's
-    method to a relative tolerance of 1e-10.
-
-    Parameters
-    ----------
-    E_unit_kV_per_mm : field magnitude along the path at scale 1, kV/mm.
-    ds_mm : segment lengths between samples, mm.
-    p_bar : pressure of air at 20 degC with the same density, bar.
-    K, C : the critical integral and the fit coefficient, calibrated together.
-
-    Raises
-    ------
-    InceptionError : the field is zero everywhere on the path, or the path has no length.
-    """
-    E = np.asarray(E_unit_kV_per_mm, dtype=float)
-    ds = _segment_lengths(E.size, ds_mm)
-    if not (K > 0 and C > 0):
-        raise ValueError("K and C must be positive")
-    peak = float(np.max(E)) if E.size else 0.0
-    if not (math.isfinite(peak) and peak > 0.0) or float(np.sum(ds)) <= 0.0:
-        raise InceptionError("no field along the path: every electrode may be at the same "
-                             "potential, or the path has no length")
-
-    def excess(S: float) -> float:
-        return streamer_integral(S * E, ds, p_bar, C) - K
-
-    lo = critical_field_kV_per_mm(p_bar) / peak
-    hi = 2.0 * lo
-    for _ in range(_MAX_DOUBLINGS):
-        if excess(hi) >= 0.0:
-            break
-        lo, hi = hi, 2.0 * hi
-    else:
-        raise InceptionError("the streamer integral never reaches K along this path")
-    return float(brentq(excess, lo, hi, xtol=1e-14, rtol=1e-10))
-
-
-def ionisation_length_mm(E_kV_per_mm: np.ndarray, s_mm: np.ndarray, p_bar: float) -> float:
-    """Length of path where the field exceeds the critical field (linear between samples), mm."""
-    x = E_kV_per_mm - critical_field_kV_per_mm(p_bar)
-    a, b, ds = x[:-1], x[1:], np.diff(s_mm)
-    hi, lo = np.maximum(a, b), np.minimum(a, b)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        frac = np.where(lo >= 0, 1.0, np.where(hi > 0, hi / (hi - lo), 0.0))
-    return float(np.sum(frac * ds))
 
 
 # --------------------------------------------------------------------------- result
@@ -210,6 +99,25 @@ def utilisation_factor(path: GasPath, start_volts: float,
         return None
     peak = float(np.max(path.E_kV_per_mm))
     return abs(start_volts - end_volts) / 1000.0 / (float(path.s_mm[-1]) * peak)
+
+
+def describe_inception(inc: Inception) -> list[str]:
+    """Plain-text lines (with units) for a results panel or a report table.
+
+    Example: ``"Inception (streamer estimate): 58.1 kV on HV sphere (1.00 x applied)"``.
+    Show :data:`INCEPTION_CAUTION` with them.
+    """
+    top = max(inc.volts.items(), key=lambda kv: abs(kv[1]), default=("", 0.0))
+    lines = [f"Inception (streamer estimate): {top[1] / 1000:.3g} kV on {top[0]} "
+             f"({inc.scale:.3g} x applied)" if top[0] else
+             f"Inception (streamer estimate): {inc.scale:.3g} x applied"]
+    lines.append(f"Path: {inc.s_mm[-1]:.3g} mm from {inc.start_part} to {inc.ends_at}; "
+                 f"ionisation zone {inc.ionisation_length_mm:.3g} mm")
+    lines.append(f"Peak field at inception: {inc.peak_field_kV_per_mm:.3g} kV/mm; air "
+                 f"{inc.p_bar:.3g} bar at 20 degC equivalent, K = {inc.K:g}")
+    if inc.utilisation is not None:
+        lines.append(f"Field utilisation of the gap (mean / peak field): {inc.utilisation:.2f}")
+    return lines + list(inc.notes)
 
 
 def inception_to_json(inc: Inception, max_points: int = 400) -> dict:
@@ -393,8 +301,7 @@ def estimate_inception(solution: Solution, pressure_kPa: float | None = None,
 
 __all__ = [
     "INCEPTION_CAUTION", "FieldProbe", "GasPath", "Inception", "InceptionError",
-    "estimate_inception", "estimate_inception_at", "gas_field_sampler", "probe_from_solution",
+    "describe_inception", "estimate_inception", "estimate_inception_at", "gas_field_sampler",
     "inception_scale", "inception_to_json", "ionisation_length_mm", "path_inception",
-    "streamer_integral", "trace_gas_path", "utilisation_factor",
+    "probe_from_solution", "streamer_integral", "trace_gas_path", "utilisation_factor",
 ]
-

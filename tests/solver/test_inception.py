@@ -427,3 +427,15 @@ def test_estimate_explains_when_no_start_point_has_gas_next_to_it():
     walled = FieldProbe(probe.field, lambda p: np.zeros(len(p), dtype=int), probe.names)
     with pytest.raises(InceptionError, match="no gas next to the surface"):
         estimate_inception(sol, probe=walled)
+
+
+def test_description_lines_carry_units():
+    # common practice, no source: every number shown to the user carries its unit
+    from solver.inception import describe_inception, estimate_inception
+
+    sol = analytic_coax_solution(1.0, 50.0, 20000.0)
+    lines = describe_inception(estimate_inception(sol, probe=coax_probe(1.0, 50.0, 20000.0,
+                                                                        SOL_NAMES)))
+    assert "kV on Core" in lines[0] and "mm from Core to conductor Sheath" in lines[1]
+    assert "kV/mm" in lines[2] and "bar" in lines[2]
+    assert lines[3].startswith("Field utilisation")
