@@ -217,7 +217,7 @@ def peek_onset_field_kV_per_mm(radius_mm: ArrayLike, symmetry: str, limit: PeekL
     *Planar* layouts are long objects: every convex outline point is a cylinder of the
     local radius, so the cylinder form applies.  We use the wire form (30, 0.301)
     rather than the coaxial one (31, 0.308): it was fitted on conductors in open
-    geometry (lines over ground), the common planar case, and it is 3-4 % lower, the
+    geometry (lines over ground), the common planar case, and it is 3-5 % lower, the
     conservative side for a limit.
 
     *Axisymmetric* layouts are surfaces of revolution with two principal curvatures:
@@ -228,9 +228,10 @@ def peek_onset_field_kV_per_mm(radius_mm: ArrayLike, symmetry: str, limit: PeekL
     use the sphere form at the sphere radius with the same decay,
     :math:`r_{eq} = 2 / (\kappa_m + \kappa_\varphi)`.  This is exact for spheres; for
     a cylinder-like stretch (a rod's side, a ring's outer rim) it gives the sphere form
-    at twice the cylinder radius, within 5 % of the cylinder forms over 0.5 mm to
-    50 mm; for a torus it lies between.  Using the smaller principal radius instead
-    would overrate a rod's side by about 12 %.
+    at twice the cylinder radius, which lies within +5 % / -7 % of Peek's wire form for
+    radii of 0.5 mm to 50 mm (below it from 2.5 mm up: the conservative side); for a
+    torus it lies between.  The sphere form at the smaller principal radius instead
+    would overrate the side of a thin rod by 12 % (5 mm) to 32 % (0.5 mm).
 
     Straight (``inf``) and concave (negative) outline radii contribute zero curvature:
     a concave surface spreads the field rather than concentrating it.  Where the
