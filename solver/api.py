@@ -1,0 +1,161 @@
+"""Solve a layout: grid, system, unit solutions, superposition, post-processing.
+
+Every conductor is first a Dirichlet boundary.  For each conductor j that matters, the
+unit solution :math:`u_j` (conductor j at 1 V, all others and the outer edge at 0 V)
+is computed with one factorisation or multigrid hierarchy; the charges they carry give
+the Maxwell capacitance matrix :math:`C_{ij} = Q_i(u_j)`.  The potential is then the
+superposition :math:`\\phi = \\sum_j V_j u_j`, where the potentials of floating
+conductors solve :math:`C_{ff} V_f = Q_f - C_{fe} V_e` (their given charges).  So a
+change of voltages or charges alone needs no new solve at all.
+
+Charges come from Gauss's law on the outline, :math:`Q = \\varepsilon_0\\oint
+\\varepsilon_r E_n\\,dl` (planar, C/m) or :math:`\\varepsilon_0\\oint\\varepsilon_r
+E_n\\,2\\pi r\\,dl` (axisymmetric, C), with the second-order surface field.
+"""
+
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass
+
+import numpy as np
+
+from .discretize import EPS0, System, discretize
+from .geometry import PartOutline, layout_outlines
+from .grid import Grid, build_grid
+from .layout import FixedLimit, Layout, Resolution
+from .linsolve import Prepared, prepare
+from .post import grid_field, grid_potential
+from .results import summarise
+from .solution import Solution
+from .surface import conductor_samples, ring_charge_integral
+
+COARSEN_FOR_ERROR = 1.6
+
+
+@dataclass(frozen=True)
+class PreparedLayout:
+    """A layout discretised and factorised, with its unit solutions (reusable)."""
+
+    layout: Layout
+    outlines: tuple[PartOutline, ...]
+    grid: Grid
+    system: System
+    prepared: Prepared
+    unit: dict[int, np.ndarray]
+    charges: dict[int, np.ndarray]
+    setup_seconds: float
+    converged: bool
+    residual: float
+
+
+def prepare_layout(layout: Layout, resolution: Resolution | None = None,
+                   coarsen: float = 1.0, all_conductors: bool = True) -> PreparedLayout:
+    """Grid, assemble and factorise; compute the unit solutions that are needed.
+
+    With ``all_conductors`` every conductor gets its unit solution (capacitance matrix);
+    otherwise only energised electrodes, floating conductors and a live outer edge.
+    """
+    t0 = time.perf_counter()
+    outlines = layout_outlines(layout)
+    grid = build_grid(layout, outlines, resolution, coarsen=coarsen)
+    system = discretize(layout, outlines, grid)
+    prep = prepare(system.A)
+    n_parts = len(layout.parts)
+    wanted = [k for k, p in enumerate(layout.parts) if p.is_conductor and (
+        all_conductors or p.kind == "floating" or (p.volts or 0.0) != 0.0)]
+    if grid.outer == "dirichlet" and grid.outer_volts != 0.0:
+        wanted.append(n_parts)
+    unit, charges = {}, {}
+    worst, ok = 0.0, True
+    prev = None
+    for k in wanted:
+        b = np.asarray(system.G[:, k].todense()).ravel()
+        u, info = prep.solve(b, x0=prev)
+        worst, ok = max(worst, info.residual), ok and info.converged
+        unit[k] = u
+        volts = np.zeros(n_parts + 1)
+        volts[k] = 1.0
+        charges[k] = part_charges(layout, outlines, system, u, volts)
+    return PreparedLayout(layout, outlines, grid, system, prep, unit, charges,
+                          time.perf_counter() - t0, ok, worst)
+
+
+def part_charges(layout: Layout, outlines: tuple[PartOutline, ...], system: System,
+                 u: np.ndarray, volts: np.ndarray) -> np.ndarray:
+    """Charge on every part (C/m planar, C axisymmetric; zero for dielectrics)."""
+    phi = grid_potential(system, u, volts)
+    q = np.zeros(len(layout.parts))
+    scale = EPS0 * (1e-3 if system.grid.axisymmetric else 1.0)
+    for rs in conductor_samples(system, outlines, phi, volts):
+        q[rs.part] += scale * ring_charge_integral(rs, system.grid.axisymmetric)
+    return q
+
+
+def conductor_volts(pl: PreparedLayout) -> np.ndarray:
+    """Potentials of every part (V; floating ones solved) and the outer edge, last."""
+    layout = pl.layout
+    n = len(layout.parts)
+    volts = np.zeros(n + 1)
+    for k, p in enumerate(layout.parts):
+        if p.kind == "electrode":
+            volts[k] = p.volts or 0.0
+    volts[n] = pl.grid.outer_volts if pl.grid.outer == "dirichlet" else 0.0
+    fl = [k for k, p in enumerate(layout.parts) if p.kind == "floating"]
+    if fl:
+        known = [k for k in pl.unit if k not in fl]
+        q_known = sum((volts[k] * pl.charges[k] for k in known), np.zeros(n))
+        cff = np.array([[pl.charges[j][i] for j in fl] for i in fl])
+        rhs = np.array([(layout.parts[i].charge or 0.0) - q_known[i] for i in fl])
+        volts[fl] = np.linalg.solve(cff, rhs)
+    return volts
+
+
+def solve_prepared(pl: PreparedLayout, estimate: dict[str, float] | None = None,
+                   extra_seconds: float = 0.0) -> Solution:
+    """The Solution of a prepared layout by superposition of its unit solutions."""
+    t0 = time.perf_counter()
+    volts = conductor_volts(pl)
+    u = np.zeros(pl.system.A.shape[0])
+    for k, uk in pl.unit.items():
+        if volts[k] != 0.0:
+            u += volts[k] * uk
+    phi = grid_potential(pl.system, u, volts)
+    ex, ey = grid_field(pl.system, phi, volts)
+    cap_idx = [k for k, p in enumerate(pl.layout.parts) if p.is_conductor and k in pl.unit]
+    cap = np.array([[pl.charges[j][i] for j in cap_idx] for i in cap_idx])
+    if len(cap_idx) != sum(p.is_conductor for p in pl.layout.parts):
+        cap = np.zeros((0, 0))
+        cap_idx = []
+    seconds = pl.setup_seconds + extra_seconds + time.perf_counter() - t0
+    return summarise(pl, volts, u, phi, ex, ey, cap, cap_idx, seconds, estimate)
+
+
+def solve(layout: Layout, resolution: Resolution | None = None, estimate_error: bool = True,
+          capacitance: bool = True) -> Solution:
+    """Solve a layout (see the module docstring); the main entry point of the solver.
+
+    With ``estimate_error`` a second solve on a grid 1.6 times coarser gives each peak
+    field an error estimate by Richardson's rule for a second-order method,
+    :math:`e \\approx |E_h - E_{1.6h}| / (1.6^2 - 1)`.
+    """
+    t0 = time.perf_counter()
+    pl = prepare_layout(layout, resolution, all_conductors=capacitance)
+    estimate = None
+    if estimate_error:
+        coarse = solve_prepared(prepare_layout(layout, resolution, COARSEN_FOR_ERROR,
+                                               all_conductors=False))
+        estimate = {p.name: p.peak_field_kV_per_mm for p in coarse.parts}
+    sol = solve_prepared(pl, estimate, extra_seconds=time.perf_counter() - t0
+                         - pl.setup_seconds)
+    return sol
+
+
+def limit_function(layout: Layout):
+    """``f(radius_mm) -> limit kV/mm`` for the layout's limit setting."""
+    lim = layout.limit
+    if isinstance(lim, FixedLimit):
+        return lambda r: np.full(np.shape(r), lim.kV_per_mm)
+    from .air import peek_onset_field_kV_per_mm
+
+    return lambda r: peek_onset_field_kV_per_mm(np.asarray(r, float), layout.symmetry, lim)

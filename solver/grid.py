@@ -1,0 +1,275 @@
+"""Non-uniform tensor-product grids refined at the outlines.
+
+Every outline point p asks for a local spacing :math:`h_p = L_p / N`, where
+:math:`L_p` is the smallest length that shapes the field there (the radius of
+curvature, the gap to the nearest other part, the size of the layout) and N the cells
+per length of the chosen resolution.  Along each axis the spacing is the lower envelope
+of cones
+
+.. math:: h(x) = \\min\\bigl(h_{max}(x),\\; \\min_p\\, [h_p + g\\,\\max(0, |x - p_x| - B h_p)]\\bigr),
+
+so neighbouring cells differ by at most a factor :math:`1 + g` (g <= 0.2); the cones
+have flat tops ``BAND_CELLS`` cells wide, so the spacing is uniform close to a surface.  Open
+layouts are stretched geometrically out to a far boundary many layout sizes away.
+Nodes are marched from the low end: :math:`x_{k+1} = x_k + h(x_k + h_k/2)`.
+
+A grid larger than the machine can hold is refused before anything big is allocated,
+with a message naming a resolution that fits.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+from dataclasses import dataclass
+
+import numpy as np
+import shapely
+
+from .geometry import ARC_STEP_RAD, PartOutline
+from .layout import Layout, LayoutError, Resolution
+
+# cells per local length, growth per cell, cells across the region of interest
+RESOLUTION_SETTINGS: dict[str, tuple[float, float, float]] = {
+    "draft": (8.0, 0.20, 24.0),
+    "normal": (20.0, 0.12, 40.0),
+    "fine": (40.0, 0.08, 64.0),
+}
+BAND_CELLS = 6.0
+"""Cells of uniform spacing kept on each side of an outline before the grid grows:
+growth right at a surface costs the surface field its second order."""
+FAR_FACTOR = {"planar": 30.0, "axisymmetric": 12.0}
+BYTES_PER_UNKNOWN = 900.0
+"""Peak memory of assembly, multigrid set-up and post-processing per unknown (measured)."""
+
+
+@dataclass(frozen=True)
+class Grid:
+    """Node coordinates (mm) and the meaning of the outer edge of the grid.
+
+    ``outer`` is ``"dirichlet"`` (nodes on the edge fixed at ``outer_volts``),
+    ``"neumann"`` (insulating walls) or ``"robin"`` (open axisymmetric layout: the
+    far field decays as a monopole, :math:`\\partial_n\\phi = -(\\hat n\\cdot\\hat R)\\phi/R`
+    about ``centre``).  In axisymmetric grids ``x[0] == 0`` is the axis.
+    """
+
+    x: np.ndarray
+    y: np.ndarray
+    outer: str
+    outer_volts: float
+    axisymmetric: bool
+    roi: tuple[float, float, float, float]
+    centre: tuple[float, float]
+    surface_spacing: float
+
+    @property
+    def shape(self) -> tuple[int, int]:
+        return (len(self.y), len(self.x))
+
+
+def resolution_settings(resolution: Resolution) -> tuple[float, float, float, float | None]:
+    """(cells per length, growth, cells across ROI, fixed finest spacing mm or None)."""
+    if isinstance(resolution, str):
+        n, g, nroi = RESOLUTION_SETTINGS[resolution]
+        return n, g, nroi, None
+    n, g, nroi = RESOLUTION_SETTINGS["normal"]
+    return n, g, nroi, float(resolution)
+
+
+def max_unknowns() -> int:
+    """How many unknowns fit in half the memory available now."""
+    avail = None
+    try:
+        with open("/proc/meminfo") as fh:
+            for line in fh:
+                if line.startswith("MemAvailable:"):
+                    avail = int(line.split()[1]) * 1024
+    except OSError:
+        pass
+    if avail is None:
+        avail = int(os.environ.get("STRESSLENS_MEMORY_BYTES", 4 * 2**30))
+    return max(10_000, int(0.5 * avail / BYTES_PER_UNKNOWN))
+
+
+def build_grid(layout: Layout, outlines: tuple[PartOutline, ...],
+               resolution: Resolution | None = None, coarsen: float = 1.0,
+               unknown_cap: int | None = None) -> Grid:
+    """The grid for a layout at a resolution; ``coarsen`` > 1 scales every spacing up."""
+    res = layout.resolution if resolution is None else resolution
+    n_per, growth, n_roi, fixed = resolution_settings(res)
+    pts, h_pts = _surface_requests(layout, outlines, n_per / coarsen, n_roi / coarsen,
+                                   None if fixed is None else fixed * coarsen)
+    x0, y0, x1, y1 = _roi(outlines)
+    size = max(x1 - x0, y1 - y0)
+    h_roi = size / (n_roi / coarsen)
+    axisym = layout.symmetry == "axisymmetric"
+    lo, hi, outer, volts, centre = _domain(layout, (x0, y0, x1, y1), size, axisym)
+    cap = unknown_cap or max_unknowns()
+    axis_cap = max(1000, int(math.sqrt(cap) * 8))
+    band = BAND_CELLS
+    xs = _axis(lo[0], hi[0], pts[:, 0], h_pts, growth, h_roi, (x0, x1), axis_cap, res, cap, band)
+    ys = _axis(lo[1], hi[1], pts[:, 1], h_pts, growth, h_roi, (y0, y1), axis_cap, res, cap, band)
+    n = len(xs) * len(ys)
+    if n > cap:
+        raise _too_large(res, n, cap)
+    return Grid(x=xs, y=ys, outer=outer, outer_volts=volts, axisymmetric=axisym,
+                roi=(x0, y0, x1, y1), centre=centre, surface_spacing=float(h_pts.min()))
+
+
+def _too_large(res: Resolution, n: int, cap: int) -> LayoutError:
+    if isinstance(res, str):
+        hint = "choose a coarser resolution (draft), or give a finest spacing in mm"
+    else:
+        hint = f"a finest spacing of about {res * math.sqrt(n / cap) * 1.3:.3g} mm fits"
+    return LayoutError(f"resolution {res!r} needs about {n:,} grid nodes, more than the "
+                       f"{cap:,} that fit in this machine's memory; {hint}")
+
+
+def _roi(outlines: tuple[PartOutline, ...]) -> tuple[float, float, float, float]:
+    b = np.array([o.polygon.bounds for o in outlines])
+    x0, y0 = b[:, 0].min(), b[:, 1].min()
+    x1, y1 = b[:, 2].max(), b[:, 3].max()
+    pad = 0.05 * max(x1 - x0, y1 - y0)
+    return x0 - pad, y0 - pad, x1 + pad, y1 + pad
+
+
+def _domain(layout: Layout, roi: tuple[float, float, float, float], size: float,
+            axisym: bool) -> tuple[tuple[float, float], tuple[float, float], str, float,
+                                   tuple[float, float]]:
+    x0, y0, x1, y1 = roi
+    b = layout.boundary
+    centre = (0.0 if axisym else 0.5 * (x0 + x1), 0.5 * (y0 + y1))
+    if b.type == "box" and b.min and b.max:
+        lo = (0.0 if axisym else b.min[0], b.min[1])
+        outer = "neumann" if b.volts is None else "dirichlet"
+        return lo, b.max, outer, float(b.volts or 0.0), centre
+    far = FAR_FACTOR[layout.symmetry] * size
+    if axisym:
+        return (0.0, centre[1] - far), (x1 + far, centre[1] + far), "robin", 0.0, centre
+    return ((centre[0] - far, centre[1] - far), (centre[0] + far, centre[1] + far),
+            "dirichlet", 0.0, centre)
+
+
+def _surface_requests(layout: Layout, outlines: tuple[PartOutline, ...], n_per: float,
+                      n_roi: float, fixed: float | None) -> tuple[np.ndarray, np.ndarray]:
+    """Outline sample points (M, 2) and the spacing each asks for (M,), mm."""
+    x0, y0, x1, y1 = _roi(outlines)
+    size = max(x1 - x0, y1 - y0)
+    step = size / 200.0
+    all_pts, all_h = [], []
+    polys = [o.polygon for o in outlines]
+    for k, ol in enumerate(outlines):
+        for ring in ol.rings:
+            radius = vertex_radius(ring)
+            edge_len = np.hypot(*(np.roll(ring, -1, axis=0) - ring).T)
+            local = np.minimum(np.abs(radius), size)
+            corner = radius == 0
+            near_edge = np.minimum(edge_len, np.roll(edge_len, 1))
+            local = np.where(corner, np.minimum(near_edge, size) / 2.0, local)
+            pts, loc = _densify(ring, local, step)
+            gap = _gap_to_others(pts, polys, k)
+            length = np.minimum(loc, gap)
+            all_pts.append(pts)
+            all_h.append(length / n_per if fixed is None else np.full(len(pts), fixed))
+    pts = np.vstack(all_pts)
+    h = np.concatenate(all_h)
+    if fixed is None:
+        h = np.clip(h, size * 1e-6, size / n_roi)
+    return pts, h
+
+
+def _densify(ring: np.ndarray, local: np.ndarray, step: float) -> tuple[np.ndarray, np.ndarray]:
+    """Add points along long edges so no two samples are more than ``step`` apart."""
+    nxt = np.roll(ring, -1, axis=0)
+    seg = np.hypot(*(nxt - ring).T)
+    extra = np.maximum(0, np.ceil(seg / step).astype(int) - 1)
+    if not extra.any():
+        return ring, local
+    reps = extra + 1
+    idx = np.repeat(np.arange(len(ring)), reps)
+    offs = np.arange(reps.sum()) - np.repeat(np.cumsum(reps) - reps, reps)
+    t = (offs / reps[idx])[:, None]
+    pts = ring[idx] * (1 - t) + nxt[idx] * t
+    loc_next = np.roll(local, -1)
+    loc = np.where(offs == 0, local[idx],
+                   np.maximum(np.minimum(local[idx], loc_next[idx]), seg[idx]))
+    return pts, np.minimum(loc, np.inf)
+
+
+def _gap_to_others(pts: np.ndarray, polys: list, k: int) -> np.ndarray:
+    gap = np.full(len(pts), np.inf)
+    if len(polys) < 2:
+        return gap
+    p = shapely.points(pts)
+    for j, poly in enumerate(polys):
+        # parts that touch form a wedge at the contact with no length scale of its own
+        if j != k and shapely.distance(polys[k], poly) > 0:
+            gap = np.minimum(gap, shapely.distance(p, poly))
+    return gap
+
+
+def vertex_radius(ring: np.ndarray) -> np.ndarray:
+    """Signed radius of curvature at each vertex of a ring with material on the left, mm.
+
+    Positive where the outline is convex (turns left), negative where concave, ``inf``
+    on straight runs and 0 at a sharp corner (turning more than three arc steps).  On a
+    discretised arc the circumradius of three neighbouring vertices is the arc's radius.
+    """
+    prev, nxt = np.roll(ring, 1, axis=0), np.roll(ring, -1, axis=0)
+    a, b = ring - prev, nxt - ring
+    cross = a[:, 0] * b[:, 1] - a[:, 1] * b[:, 0]
+    dot = np.einsum("ij,ij->i", a, b)
+    turn = np.arctan2(cross, dot)
+    la, lb = np.hypot(*a.T), np.hypot(*b.T)
+    lc = np.hypot(*(nxt - prev).T)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        r = la * lb * lc / (2.0 * np.abs(cross))
+    r = np.where(np.abs(turn) < 1e-9, np.inf, r)
+    r = np.where(np.abs(turn) > 3.0 * ARC_STEP_RAD, 0.0, r)
+    return np.where(turn < 0, -r, r)
+
+
+def _axis(lo: float, hi: float, feat: np.ndarray, h_feat: np.ndarray, growth: float,
+          h_roi: float, roi: tuple[float, float], cap: int, res: Resolution,
+          total_cap: int, band: float = 0.0) -> np.ndarray:
+    """March nodes from lo to hi with the cone-envelope spacing (see module docstring)."""
+    order = np.argsort(h_feat)
+    feat, h_feat = feat[order], h_feat[order]
+    keep = _thin(feat, h_feat)
+    feat, h_feat = feat[keep], h_feat[keep]
+
+    def h_at(x: float) -> float:
+        h = float(np.min(h_feat + growth * np.maximum(np.abs(x - feat) - band * h_feat, 0.0)))
+        out = max(roi[0] - x, x - roi[1], 0.0)
+        return min(h, h_roi + growth * out)
+
+    xs = [lo]
+    x = lo
+    while True:
+        h = h_at(x)
+        h = h_at(x + 0.5 * h)
+        if x + 1.5 * h >= hi:
+            break
+        x += h
+        xs.append(x)
+        if len(xs) > cap:
+            raise _too_large(res, len(xs) ** 2, total_cap)
+    if hi - x > 1e-12 * max(1.0, abs(hi)):
+        if len(xs) > 1 and hi - x < 0.5 * h:
+            xs[-1] = 0.5 * (xs[-2] + hi)
+        elif hi - x > 1.2 * h:
+            xs.append(0.5 * (x + hi))
+    xs.append(hi)
+    return np.asarray(xs, dtype=float)
+
+
+def _thin(feat: np.ndarray, h_feat: np.ndarray) -> np.ndarray:
+    """Drop feature points whose cone lies wholly above another's (they change nothing)."""
+    if len(feat) < 64:
+        return np.ones(len(feat), bool)
+    q = np.round(feat / np.maximum(h_feat, 1e-12) * 4.0)
+    _, first = np.unique(np.column_stack([q, np.round(np.log(h_feat) * 8)]), axis=0,
+                         return_index=True)
+    mask = np.zeros(len(feat), bool)
+    mask[first] = True
+    return mask
