@@ -216,7 +216,7 @@ def _check_in_box(layout: Layout, part: Part, poly: ShPolygon) -> None:
 
     A conductor at another potential than a grounded (fixed-voltage) box may not touch
     its walls; an electrode at the box's voltage and any part at an insulating wall
-    may.  In an axisymmetric layout a box side at r = 0 is the axis, not a wall.
+    may.  In an axisymmetric layout the box's side at r = 0 is the axis, not a wall.
     """
     b = layout.boundary
     if b.type != "box" or b.min is None or b.max is None:
@@ -226,8 +226,8 @@ def _check_in_box(layout: Layout, part: Part, poly: ShPolygon) -> None:
             "right": b.max[0] - x1, "top": b.max[1] - y1}
     if min(gaps.values()) < -1e-9:
         raise LayoutError(f"part '{part.name}': lies partly outside the boundary box")
-    if layout.symmetry == "axisymmetric" and b.min[0] == 0.0:
-        del gaps["left"]
+    if layout.symmetry == "axisymmetric":
+        del gaps["left"]  # the axis
     at_box_volts = part.kind == "electrode" and part.volts == b.volts
     if b.volts is None or not part.is_conductor or at_box_volts:
         return

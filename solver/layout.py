@@ -235,9 +235,10 @@ def parse_layout(obj: Any, check_geometry: bool = True) -> Layout:
     boundary = _parse_boundary(r.get("boundary", "dict", default={"type": "open"}))
     limit = _parse_limit(r.get("limit", "dict", default={"type": "fixed", "kV_per_mm": 3.0}))
     resolution = _parse_resolution(r.raw("resolution", "normal"))
-    if symmetry == "axisymmetric" and boundary.min is not None and boundary.min[0] < 0:
-        raise LayoutError(f"boundary: in an axisymmetric layout x is the radius; the box "
-                          f"must start at r >= 0, not {boundary.min[0]:g} mm")
+    if symmetry == "axisymmetric" and boundary.min is not None and boundary.min[0] != 0:
+        raise LayoutError(f"boundary: in an axisymmetric layout x is the radius and the box "
+                          f"starts at the axis: its 'min' r must be 0, not "
+                          f"{boundary.min[0]:g} mm")
     parts_raw = r.get("parts", "list")
     if parts_raw is None:
         raise LayoutError("layout: the key 'parts' is missing")

@@ -197,12 +197,10 @@ def test_empty_layout_is_a_blank_sketch() -> None:
     assert validate_geometry(Layout(parts=())) == ()
 
 
-def _in_box(volts: float | None, symmetry: str = "planar", part_volts: float = 500.0,
-            x_min: float = -10.0) -> Layout:
+def _in_box(volts: float | None, part_volts: float = 500.0) -> Layout:
     """A rod of radius 2 resting on the bottom wall (y = -10) of a 20 mm box."""
-    rod = Part("Rod", "electrode", Circle((max(x_min, 0.0) + 5.0, -8.0), 2.0), volts=part_volts)
-    return Layout(parts=(rod,), symmetry=symmetry,  # type: ignore[arg-type]
-                  boundary=Boundary("box", (x_min, -10.0), (10.0, 10.0), volts))
+    rod = Part("Rod", "electrode", Circle((5.0, -8.0), 2.0), volts=part_volts)
+    return Layout(parts=(rod,), boundary=Boundary("box", (-10.0, -10.0), (10.0, 10.0), volts))
 
 
 def test_conductor_touching_a_grounded_wall_is_refused() -> None:
