@@ -90,7 +90,10 @@ def build_window(layout_path: str | None):  # noqa: ANN201 - MainWindow
     """
     from .main_window import MainWindow
 
+    from .live_view import attach_live_view
+
     window = MainWindow()
+    attach_live_view(window)
     if layout_path:
         window.files.load(layout_path)
     return window

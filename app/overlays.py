@@ -1,0 +1,201 @@
+"""Field overlays on the canvas: potential colour map, equipotentials, field lines, hot spots.
+
+Built on the GUI thread from a :class:`app.solve_runner.LiveResult` (plain arrays made
+by the worker).  The colour map goes on the canvas's ``underlay`` layer, below the
+parts; lines and markers on its ``overlay`` layer.  Lines use cosmetic pens (width in
+screen pixels at any zoom); text and markers ignore the view transform, so they stay
+upright in the y-up view and keep their size.
+
+Colour map: matplotlib's *cividis* (perceptually uniform, readable with colour-vision
+deficiency), from the lowest to the highest potential, at 45 % opacity so the grid and
+the parts remain legible beneath the lines.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from PySide6.QtCore import QPointF, QRectF, Qt
+from PySide6.QtGui import QBrush, QColor, QFont, QImage, QPainterPath, QPen, QPixmap, QTransform
+from PySide6.QtWidgets import (
+    QGraphicsEllipseItem,
+    QGraphicsItem,
+    QGraphicsItemGroup,
+    QGraphicsPathItem,
+    QGraphicsPixmapItem,
+    QGraphicsSimpleTextItem,
+)
+
+from .palette import HOT_SPOT
+from .solve_runner import LiveResult
+
+OVERLAY_NAMES = ("potential_map", "equipotentials", "field_lines", "hot_spots")
+OVERLAY_LABELS = {"potential_map": "Potential colour map",
+                  "equipotentials": "Equipotential lines",
+                  "field_lines": "Field lines",
+                  "hot_spots": "Hot spots"}
+MAP_ALPHA = 115
+EQUIPOTENTIAL = QColor("#2d3a4a")
+FIELD_LINE = QColor(150, 70, 40, 170)
+LABEL_BG = QColor(251, 250, 247, 220)
+
+
+def colour_table(n: int = 256) -> np.ndarray:
+    """(n, 4) uint8 RGBA lookup table of the potential colour map."""
+    from matplotlib import colormaps
+
+    rgba = colormaps["cividis"](np.linspace(0.0, 1.0, n))
+    out = (rgba * 255).round().astype(np.uint8)
+    out[:, 3] = MAP_ALPHA
+    return out
+
+
+_LUT: np.ndarray | None = None
+
+
+def potential_image(phi: np.ndarray, lo: float, hi: float) -> QImage:
+    """RGBA image of ``phi`` (V) mapped from ``lo`` to ``hi``; NaN transparent.
+
+    Row ``i`` of the image is row ``i`` of ``phi`` (lowest y first): the y-up view
+    shows it the right way round.
+    """
+    global _LUT
+    if _LUT is None:
+        _LUT = colour_table()
+    span = hi - lo if hi > lo else 1.0
+    t = np.nan_to_num((phi - lo) / span, nan=0.0)
+    idx = np.clip((t * (len(_LUT) - 1)).round().astype(int), 0, len(_LUT) - 1)
+    rgba = _LUT[idx]
+    rgba[np.isnan(phi)] = 0
+    rgba = np.ascontiguousarray(rgba)
+    h, w = phi.shape
+    return QImage(rgba.data, w, h, 4 * w, QImage.Format.Format_RGBA8888).copy()
+
+
+def _path(lines: list[np.ndarray]) -> QPainterPath:
+    path = QPainterPath()
+    for ln in lines:
+        if len(ln) < 2:
+            continue
+        path.moveTo(QPointF(*ln[0]))
+        for x, y in ln[1:]:
+            path.lineTo(QPointF(x, y))
+    return path
+
+
+def _pen(colour: QColor, width: float, style: Qt.PenStyle = Qt.PenStyle.SolidLine) -> QPen:
+    pen = QPen(colour, width, style)
+    pen.setCosmetic(True)
+    return pen
+
+
+def _label(text: str, at: tuple[float, float], colour: QColor, bold: bool = False
+           ) -> QGraphicsSimpleTextItem:
+    item = QGraphicsSimpleTextItem(text)
+    item.setFlag(QGraphicsItem.GraphicsItemFlag.ItemIgnoresTransformations, True)
+    font = QFont()
+    font.setPointSizeF(8.5)
+    font.setBold(bold)
+    item.setFont(font)
+    item.setBrush(QBrush(colour))
+    item.setPos(QPointF(*at))
+    return item
+
+
+def format_kV(volts: float) -> str:
+    """'12.5 kV' style text for a potential in volts."""
+    kv = volts / 1000.0
+    return f"{kv:.3g} kV" if abs(kv) >= 0.01 or kv == 0 else f"{volts:.3g} V"
+
+
+class FieldOverlays:
+    """The overlay items of one canvas; :meth:`show` replaces them with a new result."""
+
+    def __init__(self, underlay: QGraphicsItemGroup, overlay: QGraphicsItemGroup) -> None:
+        self.underlay, self.overlay = underlay, overlay
+        self.visible = dict.fromkeys(OVERLAY_NAMES, True)
+        self.groups: dict[str, QGraphicsItemGroup] = {}
+        for name in OVERLAY_NAMES:
+            g = QGraphicsItemGroup()
+            g.setHandlesChildEvents(False)
+            (underlay if name == "potential_map" else overlay).addToGroup(g)
+            self.groups[name] = g
+        self.result: LiveResult | None = None
+
+    def set_visible(self, name: str, on: bool) -> None:
+        self.visible[name] = on
+        self.groups[name].setVisible(on)
+
+    def clear(self) -> None:
+        for g in self.groups.values():
+            for child in g.childItems():
+                g.removeFromGroup(child)
+                if child.scene() is not None:
+                    child.scene().removeItem(child)
+
+    def show(self, res: LiveResult) -> None:
+        """Replace every overlay with those of ``res``."""
+        self.clear()
+        self.result = res
+        self._potential_map(res)
+        self._equipotentials(res)
+        self._field_lines(res)
+        self._hot_spots(res)
+        for name, g in self.groups.items():
+            g.setVisible(self.visible[name])
+
+    # ------------------------------------------------------------------ items
+
+    def _add(self, name: str, item: QGraphicsItem) -> None:
+        self.groups[name].addToGroup(item)
+
+    def _potential_map(self, res: LiveResult) -> None:
+        volts = [p.volts for p in res.solution.parts if p.volts is not None] + [0.0]
+        img = potential_image(res.raster_phi, min(volts), max(volts))
+        x0, y0, x1, y1 = res.raster_box_mm
+        item = QGraphicsPixmapItem(QPixmap.fromImage(img))
+        item.setTransformationMode(Qt.TransformationMode.SmoothTransformation)
+        item.setTransform(QTransform.fromScale((x1 - x0) / img.width(),
+                                               (y1 - y0) / img.height()))
+        item.setPos(x0, y0)
+        self._add("potential_map", item)
+
+    def _equipotentials(self, res: LiveResult) -> None:
+        for level, lines in res.equipotentials:
+            if not lines:
+                continue
+            item = QGraphicsPathItem(_path(lines))
+            item.setPen(_pen(EQUIPOTENTIAL, 1.0))
+            self._add("equipotentials", item)
+            longest = max(lines, key=len)
+            mid = longest[len(longest) // 2]
+            self._add("equipotentials", _label(format_kV(level), (mid[0], mid[1]),
+                                               EQUIPOTENTIAL))
+
+    def _field_lines(self, res: LiveResult) -> None:
+        if res.field_lines:
+            item = QGraphicsPathItem(_path(res.field_lines))
+            item.setPen(_pen(FIELD_LINE, 0.9))
+            self._add("field_lines", item)
+
+    def _hot_spots(self, res: LiveResult) -> None:
+        r = 9.0
+        for hs in res.solution.hot_spots:
+            ring = QGraphicsEllipseItem(QRectF(-r, -r, 2 * r, 2 * r))
+            ring.setFlag(QGraphicsItem.GraphicsItemFlag.ItemIgnoresTransformations, True)
+            ring.setPen(QPen(HOT_SPOT, 2.2))
+            ring.setBrush(QBrush(QColor(HOT_SPOT.red(), HOT_SPOT.green(), HOT_SPOT.blue(),
+                                        50)))
+            ring.setPos(QPointF(*hs.at_mm))
+            ring.setToolTip(hot_spot_text(hs))
+            self._add("hot_spots", ring)
+            text = _label(hot_spot_text(hs), hs.at_mm, HOT_SPOT, bold=True)
+            text.setTransform(QTransform.fromTranslate(r + 3, -r - 14))
+            self._add("hot_spots", text)
+
+    def hot_spot_count(self) -> int:
+        return len(self.result.solution.hot_spots) if self.result else 0
+
+
+def hot_spot_text(hs) -> str:  # noqa: ANN001 - solver.solution.HotSpot
+    """'3.41 kV/mm > limit 3.00 kV/mm' for a hot spot."""
+    return f"{hs.field_kV_per_mm:.2f} kV/mm > limit {hs.limit_kV_per_mm:.2f} kV/mm"
