@@ -185,8 +185,28 @@ def _explain(poly: ShPolygon) -> str:
 
 
 def layout_outlines(layout: Layout) -> tuple[PartOutline, ...]:
-    """Outlines of all parts, in layout order."""
-    return tuple(part_outline(p) for p in layout.parts)
+    """Outlines of all parts, in layout order.
+
+    In an axisymmetric layout a circle or ellipse centred on the axis (x = 0, not
+    rotated) is a sphere or spheroid: its outline is the half with r >= 0.
+    """
+    outlines = tuple(part_outline(p) for p in layout.parts)
+    if layout.symmetry != "axisymmetric":
+        return outlines
+    return tuple(_half_on_axis(p, o) for p, o in zip(layout.parts, outlines, strict=True))
+
+
+def _half_on_axis(part: Part, ol: PartOutline) -> PartOutline:
+    s = part.shape
+    centred = isinstance(s, (Circle, Ellipse)) and abs(s.center[0]) < 1e-12 and (
+        isinstance(s, Circle) or abs(s.angle_deg % 180.0) < 1e-12)
+    if not centred:
+        return ol
+    x0, y0, x1, y1 = ol.polygon.bounds
+    half = ol.polygon.intersection(shapely.box(0.0, y0 - 1.0, x1 + 1.0, y1 + 1.0))
+    if not isinstance(half, ShPolygon) or half.is_empty:
+        return ol
+    return PartOutline(part.name, half, oriented_rings(half))
 
 
 def same_conductor(a: Part, b: Part) -> bool:
