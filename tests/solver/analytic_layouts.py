@@ -13,7 +13,8 @@ import numpy as np
 
 from solver.layout import Layout, parse_layout
 
-FAR = 1e6  # a "box" so large that only its role as a wall matters (mm)
+EPS0 = 8.8541878128e-12  # F/m, CODATA 2018
+K = 1.0 / (4.0 * math.pi * EPS0)
 
 
 def circle_points(cx: float, cy: float, r: float, n: int = 2000) -> list[list[float]]:
@@ -43,7 +44,7 @@ def coax(a: float, b: float, volts: float, resolution: Any = "normal",
     """Planar coax: inner circle radius ``a`` at ``volts`` in a grounded tube of bore ``b``.
 
     ``sleeve`` = (outer radius mm, permittivity) adds a dielectric tube on the inner
-    conductor.
+    conductor (drawn as a disc with the conductor wholly inside it).
     """
     outer = b * 1.3
     parts = [
@@ -56,8 +57,7 @@ def coax(a: float, b: float, volts: float, resolution: Any = "normal",
     if sleeve is not None:
         rs, eps = sleeve
         parts.append({"name": "sleeve", "kind": "dielectric", "permittivity": eps,
-                      "shape": {"type": "polygon", "points": circle_points(0, 0, rs),
-                                "holes": [circle_points(0, 0, a * 0.5, 200)]}})
+                      "shape": {"type": "circle", "center": [0, 0], "radius": rs}})
     return _layout(parts, resolution=resolution)
 
 
@@ -148,3 +148,51 @@ def sphere_gap(a: float, s: float, volts: float, resolution: Any = "normal") -> 
         {"name": "earthed", "kind": "electrode", "volts": 0,
          "shape": {"type": "polygon", "points": half_disc_points(zc, a)}},
     ], symmetry="axisymmetric", resolution=resolution)
+
+
+# --------------------------------------------------------------- exact oracles
+
+def box_image_shift(r: float, h: float, w: float, n: int = 200) -> float:
+    """Potential at the wire, in units of lambda/(2 pi eps0), from all images of the line
+    charge at (0, b) in the grounded box [-w/2, w/2] x [0, w] except the plane image.
+
+    Images by reflection in the walls x = +-w/2 and y = 0, w (method of images; common
+    practice, no source): +lambda at (2 m w, 2 k w +- b) with sign +- , and -lambda at
+    ((2 m + 1) w, ...).  Summed over a symmetric square of cells, which converges.
+    """
+    b = math.sqrt(h * h - r * r)
+    m = np.arange(-n, n + 1)
+    mm, kk = np.meshgrid(m, m)
+    total = 0.0
+    for xs, sx in ((2 * mm * w, 1.0), ((2 * mm + 1) * w, -1.0)):
+        for ys, sy in ((2 * kk * w + b, 1.0), (2 * kk * w - b, -1.0)):
+            sign = np.full(mm.shape, sx * sy)
+            if sx > 0:
+                sign[n, n] = 0.0  # the charge itself and its plane image
+            total += float(np.sum(-sign * np.log(np.hypot(xs, ys - h))))
+    return total
+
+
+def sphere_plane_series(a: float, h: float, u: float, terms: int = 200
+                        ) -> tuple[float, float]:
+    """(C in F, E_max in V/m) of a sphere radius ``a`` mm, centre ``h`` mm above a
+    grounded plane, at ``u`` V.
+
+    Kelvin images: q0 = 4 pi eps0 a U at z0 = h; the image of the plane image -q_{n-1}
+    (at -z_{n-1}) in the sphere is q_n = q_{n-1} a / (h + z_{n-1}) at
+    z_n = h - a^2 / (h + z_{n-1}).  E at the point nearest the plane, z_p = h - a:
+    E = sum q_n [1/(z_n - z_p)^2 + 1/(z_n + z_p)^2] / (4 pi eps0).
+    Source: method of images for a sphere and a plane, e.g. Smythe, Static and Dynamic
+    Electricity, ch. 5 (from memory); REFERENCES 1.4 (validated there: sphere surface
+    equipotential to 7e-16).
+    """
+    am, hm = a * 1e-3, h * 1e-3
+    q, z = 4 * math.pi * EPS0 * am * u, hm
+    zp = hm - am
+    cap, field = 0.0, 0.0
+    for _ in range(terms):
+        cap += q / u
+        field += K * q * (1.0 / (z - zp) ** 2 + 1.0 / (z + zp) ** 2)
+        d = hm + z
+        q, z = q * am / d, hm - am * am / d
+    return cap, field

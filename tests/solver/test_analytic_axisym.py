@@ -12,7 +12,13 @@ from __future__ import annotations
 import math
 
 import pytest
-from analytic_layouts import sphere, sphere_gap, sphere_in_sphere, sphere_over_plane
+from analytic_layouts import (
+    sphere,
+    sphere_gap,
+    sphere_in_sphere,
+    sphere_over_plane,
+    sphere_plane_series,
+)
 
 import solver
 from solver.layout import parse_layout
@@ -32,31 +38,6 @@ def rel(a: float, b: float) -> float:
 
 
 # --------------------------------------------------------------- image series (exact)
-
-def sphere_plane_series(a: float, h: float, u: float, terms: int = 200
-                        ) -> tuple[float, float]:
-    """(C in F, E_max in V/m) of a sphere radius ``a`` mm, centre ``h`` mm above a
-    grounded plane, at ``u`` V.
-
-    Kelvin images: q0 = 4 pi eps0 a U at z0 = h; the image of the plane image -q_{n-1}
-    (at -z_{n-1}) in the sphere is q_n = q_{n-1} a / (h + z_{n-1}) at
-    z_n = h - a^2 / (h + z_{n-1}).  E at the point nearest the plane, z_p = h - a:
-    E = sum q_n [1/(z_n - z_p)^2 + 1/(z_n + z_p)^2] / (4 pi eps0).
-    Source: method of images for a sphere and a plane, e.g. Smythe, Static and Dynamic
-    Electricity, ch. 5 (from memory); REFERENCES 1.4 (validated there: sphere surface
-    equipotential to 7e-16).
-    """
-    am, hm = a * 1e-3, h * 1e-3
-    q, z = 4 * math.pi * EPS0 * am * u, hm
-    zp = hm - am
-    cap, field = 0.0, 0.0
-    for _ in range(terms):
-        cap += q / u
-        field += K * q * (1.0 / (z - zp) ** 2 + 1.0 / (z + zp) ** 2)
-        d = hm + z
-        q, z = q * am / d, hm - am * am / d
-    return cap, field
-
 
 def sphere_gap_series(a: float, s: float, u: float, terms: int = 200
                       ) -> tuple[float, float]:

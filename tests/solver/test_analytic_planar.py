@@ -12,7 +12,7 @@ import math
 
 import numpy as np
 import pytest
-from analytic_layouts import coax, plates_layered, two_wires, wire_over_plane
+from analytic_layouts import box_image_shift, coax, plates_layered, two_wires, wire_over_plane
 
 import solver
 from solver.solution import Solution
@@ -114,27 +114,6 @@ def test_two_wire_line(res: str, tol: float) -> None:
 # REFERENCES 1.5.  The plane is the bottom wall of a grounded box 40 h wide and tall;
 # the other walls' images (a doubly periodic lattice, summed below) shift the wire
 # potential by -0.0021 lambda/(2 pi eps0), i.e. raise C' by 0.07 % for r = 5, h = 50.
-
-def box_image_shift(r: float, h: float, w: float, n: int = 200) -> float:
-    """Potential at the wire, in units of lambda/(2 pi eps0), from all images of the line
-    charge at (0, b) in the grounded box [-w/2, w/2] x [0, w] except the plane image.
-
-    Images by reflection in the walls x = +-w/2 and y = 0, w (method of images; common
-    practice, no source): +lambda at (2 m w, 2 k w +- b) with sign +- , and -lambda at
-    ((2 m + 1) w, ...).  Summed over a symmetric square of cells, which converges.
-    """
-    b = math.sqrt(h * h - r * r)
-    m = np.arange(-n, n + 1)
-    mm, kk = np.meshgrid(m, m)
-    total = 0.0
-    for xs, sx in ((2 * mm * w, 1.0), ((2 * mm + 1) * w, -1.0)):
-        for ys, sy in ((2 * kk * w + b, 1.0), (2 * kk * w - b, -1.0)):
-            sign = np.full(mm.shape, sx * sy)
-            if sx > 0:
-                sign[n, n] = 0.0  # the charge itself and its plane image
-            total += float(np.sum(-sign * np.log(np.hypot(xs, ys - h))))
-    return total
-
 
 @pytest.mark.parametrize("res,tol", [("draft", 0.01), ("normal", 0.005)])
 def test_wire_over_plane(res: str, tol: float) -> None:
