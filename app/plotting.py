@@ -31,11 +31,17 @@ from solver.geometry import part_outline
 from solver.layout import Part
 from solver.solution import Solution
 
+from . import palette
+from .report_numbers import fmt_num
+
 MAX_LEVELS = 200
 """Most equipotential levels drawn; a finer step is coarsened (and said so)."""
 
 MAX_LABELLED_HOT_SPOTS = 6
 """Hot spots beyond this many (the weakest) are marked but not labelled."""
+
+SLIM_FRACTION = 0.035
+"""Parts with an inscribed radius below this share of the view get their caption beside them."""
 
 MAP_PIXELS = 700
 """Pixels along the longer side of the resampled colour map."""
@@ -62,44 +68,58 @@ class ReportOverlays:
 
 @dataclass(frozen=True)
 class PartStyle:
-    """How one kind of part is drawn: colours, hatch and outline line style."""
+    """How one kind of part is drawn in print: hatch and outline line style.
 
-    face: str
-    edge: str
+    Colours come from :mod:`app.palette` (the canvas's own); hatch and line style make
+    the kinds tell apart in a black-and-white print too.
+    """
+
     hatch: str
     linestyle: str | tuple[float, tuple[float, ...]]
-    alpha: float
 
 
 PART_STYLES: dict[str, PartStyle] = {
-    "electrode": PartStyle("#b58a55", "#3d2a12", "////", "-", 1.0),
-    "floating": PartStyle("#8fa3bd", "#1f3047", "xxx", (0, (5.0, 2.0)), 1.0),
-    "dielectric": PartStyle("#cfe0bf", "#3c5a2e", "...", (0, (1.2, 1.6)), 0.45),
+    "electrode": PartStyle("////", "-"),
+    "floating": PartStyle("xxx", (0, (5.0, 2.0))),
+    "dielectric": PartStyle("...", (0, (1.2, 1.6))),
 }
-"""Our own palette: bronze electrodes, slate floating conductors, sage dielectrics."""
 
-EQUIPOTENTIAL_COLOUR = "#1b1b1b"
-FIELD_LINE_COLOUR = "#f4f1ea"
-FIELD_LINE_EDGE = "#3a3a3a"
-HOT_SPOT_COLOUR = "#d7263d"
+EQUIPOTENTIAL_COLOUR = "#2d3a4a"
+FIELD_LINE_COLOUR = "#96462a"
+HOT_SPOT_COLOUR = palette.HOT_SPOT.name()
 PEAK_COLOUR = "#111111"
+MAP_OPACITY = 0.45
+"""Share of the colour map in a map pixel, the rest is the canvas colour (as on screen)."""
 
 
-def _lightened(name: str, white: float, n: int = 256) -> ListedColormap:
-    """A matplotlib colour map blended toward white by ``white`` (0..1).
+def part_colours(part: Part, solution: Solution) -> tuple[str, str, float]:
+    r"""(edge, face, face alpha) of a part, from the canvas palette.
 
-    Blending with white keeps the lightness monotone (so the map stays perceptually
-    ordered and prints as an ordered grey ramp) while leaving dark lines legible on it.
+    An electrode's face runs from ground grey to amber with :math:`|V|/\max|V|`.
+    """
+    vmax = max((abs(p.volts or 0.0) for p in solution.parts if p.kind != "dielectric"),
+               default=0.0)
+    volts = solution.part(part.name).volts
+    edge, face = palette.part_colours(part.kind, volts, vmax)
+    return edge.name(), face.name(), face.alphaF()
+
+
+def _blended(name: str, opacity: float, n: int = 256) -> ListedColormap:
+    """A matplotlib colour map laid at ``opacity`` over the canvas colour.
+
+    The blend keeps the lightness monotone (so the map stays perceptually ordered and
+    prints as an ordered grey ramp) and leaves dark lines legible everywhere on it.
     """
     from matplotlib import colormaps
 
     rgba = colormaps[name](np.linspace(0.0, 1.0, n))
-    rgba[:, :3] = white + (1.0 - white) * rgba[:, :3]
-    return ListedColormap(rgba, name=f"stresslens_{name}_light")
+    bg = np.array(palette.CANVAS.getRgbF()[:3])
+    rgba[:, :3] = opacity * rgba[:, :3] + (1.0 - opacity) * bg
+    return ListedColormap(rgba, name=f"stresslens_{name}_print")
 
 
-POTENTIAL_CMAP = _lightened("cividis", 0.35)
-FIELD_CMAP = _lightened("magma_r", 0.15)
+POTENTIAL_CMAP = _blended("cividis", MAP_OPACITY)
+FIELD_CMAP = _blended("magma_r", 0.8)
 
 
 def axis_names(solution: Solution) -> tuple[str, str]:
@@ -225,9 +245,7 @@ def draw_field_lines(ax: Axes, solution: Solution, overlays: ReportOverlays) -> 
     for line in lines:
         if len(line) < 2:
             continue
-        ax.plot(line[:, 0], line[:, 1], color=FIELD_LINE_EDGE, lw=1.5, zorder=3,
-                solid_capstyle="round")
-        ax.plot(line[:, 0], line[:, 1], color=FIELD_LINE_COLOUR, lw=0.7, zorder=3)
+        ax.plot(line[:, 0], line[:, 1], color=FIELD_LINE_COLOUR, lw=0.8, zorder=3)
         _field_arrow(ax, line, ex, ey)
         drawn += 1
     return drawn
@@ -245,7 +263,7 @@ def _field_arrow(ax: Axes, line: np.ndarray, ex: RegularGridInterpolator,
     if float(np.dot(d, e)) < 0:
         a, b = b, a
     ax.annotate("", xy=tuple(b), xytext=tuple(a), zorder=3,
-                arrowprops={"arrowstyle": "-|>", "color": FIELD_LINE_EDGE, "lw": 0.6,
+                arrowprops={"arrowstyle": "-|>", "color": FIELD_LINE_COLOUR, "lw": 0.6,
                             "mutation_scale": 7, "shrinkA": 0, "shrinkB": 0})
 
 
@@ -269,45 +287,68 @@ def draw_parts(ax: Axes, solution: Solution, label: bool = True, fontsize: float
     for part in solution.layout.parts:
         outline = part_outline(part)
         style = PART_STYLES[part.kind]
+        edge, fill, alpha = part_colours(part, solution)
         verts, codes = [], []
         for ring in outline.rings:
             closed = np.vstack([ring, ring[:1]])
             verts.append(closed)
             codes += [MplPath.MOVETO] + [MplPath.LINETO] * (len(ring) - 1) + [MplPath.CLOSEPOLY]
         path = MplPath(np.vstack(verts), codes)
-        face = PathPatch(path, facecolor=style.face, edgecolor="none", alpha=style.alpha,
+        face = PathPatch(path, facecolor=fill, edgecolor=edge, lw=0.0, alpha=alpha,
                          hatch=style.hatch, zorder=4 if part.is_conductor else 1)
         if hasattr(face, "set_hatch_linewidth"):  # matplotlib >= 3.10
             face.set_hatch_linewidth(0.4)
         ax.add_patch(face)
-        ax.add_patch(PathPatch(path, facecolor="none", edgecolor=style.edge, lw=1.3,
+        ax.add_patch(PathPatch(path, facecolor="none", edgecolor=edge, lw=1.3,
                                linestyle=style.linestyle, zorder=5))
         if label:
-            _label_part(ax, part, outline.polygon, solution, fontsize)
+            _label_part(ax, part, outline.polygon, solution, fontsize, edge)
 
 
 def _label_part(ax: Axes, part: Part, polygon: object, solution: Solution,
-                fontsize: float) -> None:
+                fontsize: float, edge: str) -> None:
+    """Caption at the part's pole; beside it, with a leader, when the part is too slim.
+
+    A part whose inscribed radius is under :data:`SLIM_FRACTION` of the view is captioned
+    off to the side, towards the middle of the view, so the box does not hide it.
+    """
     x0, y0, x1, y1 = solution.view_box_mm
-    pole = polylabel(polygon, tolerance=max(x1 - x0, y1 - y0) * 1e-3)
+    span = max(x1 - x0, y1 - y0)
+    pole = polylabel(polygon, tolerance=span * 1e-3)
     if not (x0 <= pole.x <= x1 and y0 <= pole.y <= y1):
         return
-    ax.text(pole.x, pole.y, part_caption(part, solution), ha="center", va="center",
-            fontsize=fontsize, zorder=8, clip_on=True, linespacing=1.1,
-            bbox={"boxstyle": "round,pad=0.25", "fc": "white", "ec": PART_STYLES[part.kind].edge,
-                  "lw": 0.6, "alpha": 0.88})
+    box = {"boxstyle": "round,pad=0.25", "fc": "white", "ec": edge, "lw": 0.6, "alpha": 0.9}
+    inscribed = polygon.exterior.distance(pole)  # type: ignore[attr-defined]
+    for hole in polygon.interiors:  # type: ignore[attr-defined]
+        inscribed = min(inscribed, hole.distance(pole))
+    text = part_caption(part, solution)
+    if inscribed >= SLIM_FRACTION * span:
+        ax.text(pole.x, pole.y, text, ha="center", va="center", fontsize=fontsize, zorder=8,
+                clip_on=True, linespacing=1.1, bbox=box)
+        return
+    d = np.array([(x0 + x1) / 2 - pole.x, (y0 + y1) / 2 - pole.y])
+    d = d / np.hypot(*d) if np.any(d) else np.array([0.0, 1.0])
+    ax.annotate(text, xy=(pole.x, pole.y), xytext=tuple(36 * d), textcoords="offset points",
+                ha="center", va="center", fontsize=fontsize, zorder=8, linespacing=1.1,
+                bbox=box, arrowprops={"arrowstyle": "-", "color": edge, "lw": 0.8})
 
 
 def peak_location(solution: Solution) -> tuple[str, tuple[float, float], float] | None:
-    """(part, (x, y) mm, |E| kV/mm) of the largest surface field over all outlines."""
+    """(part, (x, y) mm, |E| kV/mm) of the largest surface field, as the solver reports it.
+
+    Conductors count with their peak surface field, dielectrics with the gas-side field
+    on their outline (the field inside a dielectric body is not a surface field).
+    """
     best: tuple[str, tuple[float, float], float] | None = None
-    for tr in solution.surfaces:
-        if len(tr.E_kV_per_mm) == 0:
-            continue
-        i = int(np.nanargmax(tr.E_kV_per_mm))
-        e = float(tr.E_kV_per_mm[i])
-        if best is None or e > best[2]:
-            best = (tr.part, (float(tr.xy_mm[i, 0]), float(tr.xy_mm[i, 1])), e)
+    for p in solution.parts:
+        if p.kind == "dielectric":
+            if p.surface_field_kV_per_mm is None or p.surface_peak_at_mm is None:
+                continue
+            value, at = p.surface_field_kV_per_mm, p.surface_peak_at_mm
+        else:
+            value, at = p.peak_field_kV_per_mm, p.peak_at_mm
+        if math.isfinite(value) and (best is None or value > best[2]):
+            best = (p.name, (float(at[0]), float(at[1])), float(value))
     return best
 
 
@@ -324,14 +365,14 @@ def draw_hot_spots(ax: Axes, solution: Solution, overlays: ReportOverlays,
         ax.plot(*h.at_mm, marker="^", ms=9, mfc=HOT_SPOT_COLOUR, mec="white", mew=1.0,
                 zorder=9, ls="none")
         if k < MAX_LABELLED_HOT_SPOTS:
-            _callout(ax, h.at_mm, f"{h.field_kV_per_mm:.2f} kV/mm\n> limit "
-                     f"{h.limit_kV_per_mm:.2f}", HOT_SPOT_COLOUR, k, fontsize)
+            _callout(ax, h.at_mm, f"{fmt_num(h.field_kV_per_mm)} kV/mm\n> limit "
+                     f"{fmt_num(h.limit_kV_per_mm)}", HOT_SPOT_COLOUR, k, fontsize)
     peak = peak_location(solution)
     if peak is not None:
         ax.plot(*peak[1], marker="*", ms=13, mfc="white", mec=PEAK_COLOUR, mew=1.0, zorder=10,
                 ls="none")
         if not spots:
-            _callout(ax, peak[1], f"peak {peak[2]:.2f} kV/mm", PEAK_COLOUR, 0, fontsize)
+            _callout(ax, peak[1], f"peak {fmt_num(peak[2])} kV/mm", PEAK_COLOUR, 0, fontsize)
 
 
 def _callout(ax: Axes, at: tuple[float, float], text: str, colour: str, k: int,

@@ -24,12 +24,12 @@ from matplotlib.patches import Patch
 
 from solver.solution import Solution
 
+from . import palette
 from .atomic_file import write_atomically
 from .caution import CAUTION
 from .plotting import (
     EQUIPOTENTIAL_COLOUR,
     FIELD_LINE_COLOUR,
-    FIELD_LINE_EDGE,
     HOT_SPOT_COLOUR,
     PART_STYLES,
     PEAK_COLOUR,
@@ -37,7 +37,14 @@ from .plotting import (
     draw_solution,
     peak_location,
 )
-from .report_tables import fmt_num, render_tables_page, summary_rows
+from .report_numbers import fmt_num
+from .report_tables import (
+    describe_boundary,
+    describe_limit,
+    describe_resolution,
+    render_tables_page,
+    summary_rows,
+)
 
 __all__ = ["FIGURE_DPI", "FIGURE_SIZE_IN", "REPORT_FORMATS", "ReportError", "ReportOverlays",
            "render_figure", "write_report"]
@@ -49,6 +56,9 @@ FIGURE_DPI = 150
 """Pixels per inch of a PNG report: 1754 x 1240 pixels."""
 
 REPORT_FORMATS = (".pdf", ".png", ".svg")
+
+MAX_SUMMARY_ROWS = 8
+"""Parts listed on the figure; the PDF's second page lists them all."""
 
 
 class ReportError(ValueError):
@@ -71,6 +81,7 @@ def render_figure(solution: Solution, overlays: ReportOverlays | None = None,
     _header(fig, solution, source_name, when)
     table_bottom = _summary(fig, solution)
     _legend(fig, solution, overlays, table_bottom - 0.04)
+    _settings(fig, solution)
     _footer(fig, notes + list(solution.notes))
     return fig
 
@@ -107,7 +118,7 @@ def _summary(fig: Figure, solution: Solution) -> float:
 def _summary_table(fig: Figure, solution: Solution, x: float, y: float) -> float:
     cols = [(x, "left", "\npart"), (x + 0.15, "right", "peak\nkV/mm"),
             (x + 0.215, "right", "limit\nkV/mm"), (x + 0.275, "right", "margin\n%")]
-    rows = summary_rows(solution)[:14]
+    rows = summary_rows(solution)[:MAX_SUMMARY_ROWS]
     for k, row in enumerate([[c[2] for c in cols], *rows]):
         yy = y - 0.026 * k - 0.022 * (k > 0)
         for (cx, ha, _), cell in zip(cols, row, strict=False):
@@ -132,17 +143,18 @@ def _legend(fig: Figure, solution: Solution, overlays: ReportOverlays, top: floa
     handles: list[object] = []
     for kind in ("electrode", "floating", "dielectric"):
         if any(p.kind == kind for p in solution.layout.parts):
+            edge, face = (c.name() for c in palette.part_colours(kind, 1.0, 1.0))
             s = PART_STYLES[kind]
-            handles.append(Patch(facecolor=s.face, edgecolor=s.edge, hatch=s.hatch,
-                                 linestyle=s.linestyle, alpha=max(s.alpha, 0.7),
-                                 label=f"{kind} {'conductor' if kind == 'floating' else ''}"
-                                 .strip()))
+            label = {"electrode": "electrode (fill: grey 0 V to amber max)",
+                     "floating": "floating conductor", "dielectric": "dielectric"}[kind]
+            handles.append(Patch(facecolor=face, edgecolor=edge, hatch=s.hatch,
+                                 linestyle=s.linestyle, label=label))
     if overlays.equipotentials:
         handles.append(Line2D([], [], color=EQUIPOTENTIAL_COLOUR, lw=0.8,
                               label="equipotential (kV)"))
     if overlays.field_lines:
-        handles.append(Line2D([], [], color=FIELD_LINE_COLOUR, lw=1.4, label="field line",
-                              path_effects=_outlined()))
+        handles.append(Line2D([], [], color=FIELD_LINE_COLOUR, lw=0.8,
+                              label="field line (arrow along E)"))
     if overlays.hot_spots:
         handles.append(Line2D([], [], ls="none", marker="^", ms=8, mfc=HOT_SPOT_COLOUR,
                               mec="white", label="hot spot: field > limit"))
@@ -152,10 +164,14 @@ def _legend(fig: Figure, solution: Solution, overlays: ReportOverlays, top: floa
                frameon=False, handlelength=2.4, borderaxespad=0.0)
 
 
-def _outlined() -> list[object]:
-    from matplotlib.patheffects import Normal, Stroke
-
-    return [Stroke(linewidth=2.4, foreground=FIELD_LINE_EDGE), Normal()]
+def _settings(fig: Figure, solution: Solution) -> None:
+    """Limit, boundary, resolution and grid size, so the figure stands alone."""
+    lay = solution.layout
+    lines = [f"limit: {describe_limit(lay)}", f"boundary: {describe_boundary(lay)}",
+             f"resolution: {describe_resolution(lay)}; {solution.unknowns:,} unknowns, "
+             f"solved in {solution.solve_seconds:.2g} s"]
+    fig.text(0.70, 0.105, "\n".join(lines), fontsize=7.5, va="bottom", ha="left",
+             color="#444444", linespacing=1.5)
 
 
 def _footer(fig: Figure, notes: list[str]) -> None:

@@ -21,39 +21,12 @@ from solver.layout import FixedLimit, Layout
 from solver.solution import PartResult, Solution
 
 from .caution import CAUTION
+from .report_numbers import fmt_num, fmt_point, fmt_si
 
 A4_PORTRAIT_IN = (8.27, 11.69)
 MAX_HOT_SPOT_ROWS = 18
 MAX_PART_ROWS = 24
 MAX_MATRIX_CONDUCTORS = 6
-
-
-def fmt_num(v: float | None, digits: int = 4) -> str:
-    """A number to ``digits`` significant figures; an en dash for missing values."""
-    if v is None or not math.isfinite(v):
-        return "–"
-    return f"{v:.{digits}g}"
-
-
-def fmt_point(p: tuple[float, float] | None) -> str:
-    """A point in mm as '(x, y)'."""
-    if p is None:
-        return "–"
-    return f"({p[0]:.4g}, {p[1]:.4g})"
-
-
-def fmt_si(v: float | None, unit: str) -> str:
-    """A value with an SI prefix chosen so the mantissa lies in [1, 1000)."""
-    if v is None or not math.isfinite(v):
-        return "–"
-    if v == 0:
-        return f"0 {unit}"
-    prefixes = [(1e-15, "f"), (1e-12, "p"), (1e-9, "n"), (1e-6, "µ"), (1e-3, "m"), (1.0, "")]
-    scale, pre = prefixes[0]
-    for s, p in prefixes:
-        if abs(v) >= s * 0.9995:
-            scale, pre = s, p
-    return f"{v / scale:.4g} {pre}{unit}"
 
 
 def charge_unit(layout: Layout) -> str:

@@ -1,0 +1,33 @@
+"""Numbers as reports print them: significant figures, points in mm, SI prefixes."""
+
+from __future__ import annotations
+
+import math
+
+
+def fmt_num(v: float | None, digits: int = 4) -> str:
+    """A number to ``digits`` significant figures; an en dash for missing values."""
+    if v is None or not math.isfinite(v):
+        return "–"
+    return f"{v:.{digits}g}"
+
+
+def fmt_point(p: tuple[float, float] | None) -> str:
+    """A point in mm as '(x, y)'."""
+    if p is None:
+        return "–"
+    return f"({p[0]:.4g}, {p[1]:.4g})"
+
+
+def fmt_si(v: float | None, unit: str) -> str:
+    """A value with an SI prefix chosen so the mantissa lies in [1, 1000)."""
+    if v is None or not math.isfinite(v):
+        return "–"
+    if v == 0:
+        return f"0 {unit}"
+    prefixes = [(1e-15, "f"), (1e-12, "p"), (1e-9, "n"), (1e-6, "µ"), (1e-3, "m"), (1.0, "")]
+    scale, pre = prefixes[0]
+    for s, p in prefixes:
+        if abs(v) >= s * 0.9995:
+            scale, pre = s, p
+    return f"{v / scale:.4g} {pre}{unit}"
