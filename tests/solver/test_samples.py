@@ -11,6 +11,7 @@ from pathlib import Path
 
 import pytest
 
+import solver
 from solver.layout import FixedLimit, Layout, PeekLimit, load_layout
 
 SAMPLES = sorted((Path(__file__).resolve().parents[2] / "sample_layouts").glob("*.layout.json"))
@@ -65,3 +66,78 @@ def test_samples_cover_every_boundary_type() -> None:
 def test_samples_cover_both_limit_kinds() -> None:
     limits = {type(lay.limit) for lay in _all()}
     assert limits == {FixedLimit, PeekLimit}
+
+
+# --------------------------------------------------------------------------- solving
+
+# Regression bands, invented demo data, no outside source: the peak surface field of
+# each sample's most stressed conductor as solved at 'normal' resolution when the
+# sample was written (solver of 2026-12-01), checked at 'draft' within BAND, which
+# covers draft's own discretisation error (up to 6% seen on these samples).
+BAND = 0.08
+REGRESSION: dict[str, tuple[str, float, set[str]]] = {
+    # sample: (part holding the peak, peak kV/mm at 'normal', parts with hot spots)
+    "bench_supply_terminal.layout.json": ("Terminal", 3.360, {"Terminal"}),
+    "coax_feedthrough_epoxy.layout.json": ("Conductor", 2.835, set()),
+    "floating_shield.layout.json": ("HV electrode", 2.559, set()),
+    "grading_ring_test_rod.layout.json": ("Test rod", 7.485, {"Test rod"}),
+    "precipitator_wire_plate.layout.json": ("Discharge wire", 6.395, {"Discharge wire"}),
+    "rod_tip_over_plane.layout.json": ("Rod", 6.548, {"Rod"}),
+    "sphere_gap.layout.json": ("Upper sphere", 2.667, set()),
+}
+SHARP = {"hv_board_traces.layout.json": ("HV trace", {"HV trace", "Return trace"})}
+"""Samples whose peak sits on a corner of zero radius: no finite value to pin, so the
+check is that the solver says so."""
+
+
+def _solved(name: str) -> solver.Solution:
+    return solver.solve(load_layout(SAMPLES_BY_NAME[name]), resolution="draft",
+                        estimate_error=False)
+
+
+SAMPLES_BY_NAME = {p.name: p for p in SAMPLES}
+
+
+def test_every_sample_has_a_solving_check() -> None:
+    assert set(REGRESSION) | set(SHARP) == set(SAMPLES_BY_NAME)
+
+
+@pytest.mark.parametrize("name", sorted(REGRESSION))
+def test_sample_peak_field_stays_in_its_band(name: str) -> None:
+    part, peak, hot_parts = REGRESSION[name]
+    sol = _solved(name)
+    assert sol.converged
+    top = max((p for p in sol.parts if p.kind != "dielectric"),
+              key=lambda p: p.peak_field_kV_per_mm)
+    assert top.name == part
+    assert top.peak_field_kV_per_mm == pytest.approx(peak, rel=BAND)
+    assert not top.sharp_corner
+    assert {h.part for h in sol.hot_spots} == hot_parts
+    _check_conductor_potentials(sol)
+
+
+@pytest.mark.parametrize("name", sorted(SHARP))
+def test_sample_with_a_sharp_corner_says_so(name: str) -> None:
+    part, hot_parts = SHARP[name]
+    sol = _solved(name)
+    assert sol.converged
+    assert sol.part(part).sharp_corner
+    assert {h.part for h in sol.hot_spots} == hot_parts
+    _check_conductor_potentials(sol)
+
+
+def _check_conductor_potentials(sol: solver.Solution) -> None:
+    """Electrodes keep their given potential; a floating conductor without charge lies
+    between the lowest and highest electrode potentials (maximum principle of Laplace's
+    equation, from memory)."""
+    given = {p.name: p.volts for p in sol.layout.parts if p.kind == "electrode"}
+    assert given
+    lo, hi = min(given.values()), max(given.values())
+    if sol.layout.boundary.type == "open" or sol.layout.boundary.volts is not None:
+        far = 0.0 if sol.layout.boundary.type == "open" else sol.layout.boundary.volts
+        lo, hi = min(lo, far), max(hi, far)
+    for p in sol.parts:
+        if p.kind == "electrode":
+            assert p.volts == given[p.name]
+        elif p.kind == "floating" and not sol.layout.part(p.name).charge:
+            assert p.volts is not None and lo <= p.volts <= hi
