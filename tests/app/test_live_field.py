@@ -21,9 +21,8 @@ import pytest
 from PySide6.QtCore import QSettings
 
 from app.live_view import attach_live_view
-from solver.layout import Circle, FixedLimit, Layout, Part, Rect
-
 from app.main_window import MainWindow
+from solver.layout import Circle, FixedLimit, Layout, Part, Rect
 
 ROD_V = 10_000.0
 ROD_R = 5.0
