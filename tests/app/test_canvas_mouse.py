@@ -1,0 +1,153 @@
+"""Real mouse events on the canvas viewport: draw every shape kind, edit, select, move.
+
+Coordinates are checked in the layout JSON, within the snapping tolerance: one grid
+step at the current zoom (snapping is on, as a user has it).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+
+import pytest
+from editor_layouts import every_shape_layout
+from editor_window import click, mouse_drag, open_window, px
+from PySide6.QtCore import Qt
+
+from solver.layout import Layout
+
+
+@pytest.fixture
+def empty(qtbot, tmp_path):  # noqa: ANN001, ANN201
+    w = open_window(qtbot, tmp_path, Layout(parts=()))
+    return w
+
+
+def _grid(w) -> float:  # noqa: ANN001
+    return w.snapper.grid_mm
+
+
+def _last_shape(w) -> dict:  # noqa: ANN001
+    return w.doc.to_json()["parts"][-1]["shape"]
+
+
+def test_draw_rectangle(qtbot, empty) -> None:  # noqa: ANN001
+    empty.actions_["tool_rectangle"].trigger()
+    mouse_drag(qtbot, empty, (-40.0, -20.0), (30.0, 25.0))
+    s, g = _last_shape(empty), _grid(empty)
+    assert s["type"] == "rect"
+    assert s["min"] == pytest.approx([-40.0, -20.0], abs=g)
+    assert s["max"] == pytest.approx([30.0, 25.0], abs=g)
+
+
+def test_draw_circle_and_ellipse(qtbot, empty) -> None:  # noqa: ANN001
+    empty.actions_["tool_circle"].trigger()
+    mouse_drag(qtbot, empty, (0.0, 0.0), (30.0, 0.0))
+    s, g = _last_shape(empty), _grid(empty)
+    assert s["type"] == "circle" and s["center"] == pytest.approx([0, 0], abs=g)
+    assert s["radius"] == pytest.approx(30.0, abs=2 * g)
+    empty.actions_["tool_ellipse"].trigger()
+    mouse_drag(qtbot, empty, (-60.0, 40.0), (-20.0, 60.0))
+    s = _last_shape(empty)
+    assert s["type"] == "ellipse"
+    assert s["center"] == pytest.approx([-40, 50], abs=g)
+    assert s["radii"] == pytest.approx([20, 10], abs=g)
+
+
+def test_draw_polygon_by_clicks_and_double_click(qtbot, empty) -> None:  # noqa: ANN001
+    empty.actions_["tool_polygon"].trigger()
+    corners = [(-50.0, -40.0), (40.0, -40.0), (0.0, 40.0)]
+    for p in corners[:-1]:
+        click(qtbot, empty, p)
+    click(qtbot, empty, corners[-1])
+    qtbot.mouseDClick(empty.canvas.viewport(), Qt.MouseButton.LeftButton,
+                      pos=px(empty, *corners[-1]))
+    s, g = _last_shape(empty), _grid(empty)
+    assert s["type"] == "polygon" and len(s["points"]) == 3
+    for got, want in zip(s["points"], corners, strict=True):
+        assert got == pytest.approx(list(want), abs=g)
+
+
+def test_draw_wire_with_enter_and_cancel_polygon_with_escape(qtbot, empty) -> None:  # noqa: ANN001
+    empty.actions_["tool_polygon"].trigger()
+    for p in [(-50.0, -40.0), (40.0, -40.0), (0.0, 40.0)]:
+        click(qtbot, empty, p)
+    qtbot.keyClick(empty.canvas, Qt.Key.Key_Escape)
+    assert len(empty.doc) == 0
+    empty.actions_["tool_path"].trigger()
+    for p in [(-50.0, 0.0), (50.0, 0.0)]:
+        click(qtbot, empty, p)
+    qtbot.keyClick(empty.canvas, Qt.Key.Key_Return)
+    s = _last_shape(empty)
+    assert s["type"] == "path" and s["width"] == 2.0
+    assert s["points"][1] == pytest.approx([50.0, 0.0], abs=_grid(empty))
+
+
+def test_cut_hole_by_drag(qtbot, empty) -> None:  # noqa: ANN001
+    empty.actions_["tool_rectangle"].trigger()
+    mouse_drag(qtbot, empty, (-50.0, -40.0), (50.0, 40.0))
+    empty.actions_["tool_hole"].trigger()
+    mouse_drag(qtbot, empty, (-20.0, -10.0), (20.0, 10.0))
+    s, g = _last_shape(empty), _grid(empty)
+    assert s["type"] == "polygon" and len(s["holes"]) == 1
+    xs = [p[0] for p in s["holes"][0]]
+    assert min(xs) == pytest.approx(-20.0, abs=g) and max(xs) == pytest.approx(20.0, abs=g)
+
+
+def test_drag_vertex_and_edge(qtbot, tmp_path) -> None:  # noqa: ANN001
+    w = open_window(qtbot, tmp_path, every_shape_layout())
+    plate = w.doc.id_of("Plate")
+    w.selection.set([plate])
+    w.actions_["tool_vertex"].trigger()
+    mouse_drag(qtbot, w, (60.0, -60.0), (75.0, -45.0))
+    pts = w.doc.part(plate).shape.points
+    g = _grid(w)
+    assert pts[2] == pytest.approx((75.0, -45.0), abs=g)
+    mouse_drag(qtbot, w, (-20.0, -80.0), (-20.0, -95.0))  # bottom edge down 15 mm
+    pts = w.doc.part(plate).shape.points
+    assert pts[0] == pytest.approx((-60.0, -95.0), abs=g)
+    assert pts[1][0] == 60.0 and pts[0][1] == pts[1][1]
+    assert w.stack.count() == 2
+
+
+def test_box_select_then_move(qtbot, tmp_path) -> None:  # noqa: ANN001
+    w = open_window(qtbot, tmp_path, every_shape_layout())
+    bar, ball = w.doc.id_of("Bar"), w.doc.id_of("Ball")
+    mouse_drag(qtbot, w, (-50.0, 30.0), (45.0, 20.0))  # empty start, touches nothing
+    assert w.selection.ids == []
+    mouse_drag(qtbot, w, (-50.0, 25.0), (45.0, -5.0))
+    assert set(w.selection.ids) == {bar, ball}
+    mouse_drag(qtbot, w, (30.0, 0.0), (30.0, 20.0))
+    g = _grid(w)
+    assert w.doc.part(ball).shape.center == pytest.approx((30.0, 20.0), abs=g)
+    dy = w.doc.part(bar).shape.min[1] - (-10.0)
+    assert dy == pytest.approx(w.doc.part(ball).shape.center[1], abs=1e-9)
+    assert w.stack.count() == 1
+    w.stack.undo()
+    assert w.doc.to_json() == every_shape_layout_json()
+
+
+def test_wheel_zoom_keeps_the_point_under_the_cursor(qtbot, empty) -> None:  # noqa: ANN001
+    c = empty.canvas
+    at = px(empty, 20.0, 10.0)
+    before = c.mapToScene(at)
+    s0 = c.px_per_mm()
+    c.zoom_by(1.15 ** 3, at.toPointF())
+    after = c.mapToScene(at)
+    assert c.px_per_mm() == pytest.approx(s0 * 1.15 ** 3)
+    assert math.hypot(after.x() - before.x(), after.y() - before.y()) < 2.0 / c.px_per_mm()
+
+
+def test_cursor_position_in_status_bar(qtbot, empty) -> None:  # noqa: ANN001
+    qtbot.mouseMove(empty.canvas.viewport(), px(empty, 12.0, -7.0))
+    text = empty.position_label.text()
+    m = re.fullmatch(r"x = (-?[\d.]+) mm\s+y = (-?[\d.]+) mm", text)
+    assert m is not None, text
+    one_px = 1.0 / empty.canvas.px_per_mm()
+    assert float(m.group(1)) == pytest.approx(12.0, abs=one_px)
+    assert float(m.group(2)) == pytest.approx(-7.0, abs=one_px)
+
+
+def every_shape_layout_json() -> dict:
+    from solver.layout import layout_to_json
+    return layout_to_json(every_shape_layout())
