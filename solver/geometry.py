@@ -187,8 +187,9 @@ def _explain(poly: ShPolygon) -> str:
 def layout_outlines(layout: Layout) -> tuple[PartOutline, ...]:
     """Outlines of all parts, in layout order.
 
-    In an axisymmetric layout a circle or ellipse centred on the axis (x = 0, not
-    rotated) is a sphere or spheroid: its outline is the half with r >= 0.
+    In an axisymmetric layout a circle or ellipse centred on the axis (x = 0, its axes
+    along r and z: rotated by a multiple of 90 degrees) is a sphere or spheroid: its
+    outline is the half with r >= 0.
     """
     outlines = tuple(part_outline(p) for p in layout.parts)
     if layout.symmetry != "axisymmetric":
@@ -199,7 +200,7 @@ def layout_outlines(layout: Layout) -> tuple[PartOutline, ...]:
 def _half_on_axis(part: Part, ol: PartOutline) -> PartOutline:
     s = part.shape
     centred = isinstance(s, (Circle, Ellipse)) and abs(s.center[0]) < 1e-12 and (
-        isinstance(s, Circle) or abs(s.angle_deg % 180.0) < 1e-12)
+        isinstance(s, Circle) or _multiple_of_90(s.angle_deg))
     if not centred:
         return ol
     x0, y0, x1, y1 = ol.polygon.bounds
@@ -207,6 +208,12 @@ def _half_on_axis(part: Part, ol: PartOutline) -> PartOutline:
     if not isinstance(half, ShPolygon) or half.is_empty:
         return ol
     return PartOutline(part.name, half, oriented_rings(half))
+
+
+def _multiple_of_90(angle_deg: float) -> bool:
+    """True when an angle (degrees) is a whole multiple of 90, to 1e-9 degrees."""
+    q = angle_deg / 90.0
+    return abs(q - round(q)) < 1e-11
 
 
 def same_conductor(a: Part, b: Part) -> bool:

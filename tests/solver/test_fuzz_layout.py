@@ -288,8 +288,9 @@ def _negative_radius_axisymmetric(draw: st.DrawFn, obj: dict[str, Any]) -> None:
     """Move part 1 so that it reaches r < 0 in an axisymmetric layout."""
     obj["symmetry"] = "axisymmetric"
     obj["boundary"] = {"type": "open"}
-    obj["parts"][0]["shape"] = {"type": "circle", "center": [draw(st.floats(-50, 0.9)), 0.0],
-                                "radius": 1.0}
+    # centred on the axis (x = 0) a circle is a sphere, whose r >= 0 half is kept
+    x = draw(st.floats(-50.0, -0.01) | st.floats(0.01, 0.9))
+    obj["parts"][0]["shape"] = {"type": "circle", "center": [x, 0.0], "radius": 1.0}
 
 
 DAMAGE: dict[str, Callable[[st.DrawFn, dict[str, Any]], None]] = {

@@ -223,3 +223,28 @@ def test_axis_side_of_an_axisymmetric_box_is_no_wall() -> None:
     layout = Layout(parts=(tip,), symmetry="axisymmetric",
                     boundary=Boundary("box", (0.0, -10.0), (10.0, 10.0), 0.0))
     assert len(validate_geometry(layout)) == 1
+
+
+@pytest.mark.parametrize("shape, exact", [
+    # half a disc of radius R: pi R^2 / 2 (common practice, no source)
+    (Circle((0.0, 10.0), 4.0), math.pi * 16.0 / 2),
+    # half an ellipse: pi a b / 2, for either orientation of its axes (common practice)
+    (Ellipse((0.0, 0.0), (3.0, 5.0)), math.pi * 15.0 / 2),
+    (Ellipse((0.0, 0.0), (3.0, 5.0), 90.0), math.pi * 15.0 / 2),
+    (Ellipse((0.0, 0.0), (3.0, 5.0), -270.0), math.pi * 15.0 / 2),
+], ids=["sphere", "spheroid", "spheroid turned 90", "spheroid turned -270"])
+def test_round_shape_centred_on_the_axis_is_a_solid_of_revolution(shape: Shape,
+                                                                  exact: float) -> None:
+    layout = Layout(parts=(Part("Ball", "electrode", shape, volts=1.0),),
+                    symmetry="axisymmetric")
+    (outline,) = validate_geometry(layout)
+    assert outline.polygon.bounds[0] == pytest.approx(0.0, abs=1e-12)
+    assert outline.polygon.area == pytest.approx(exact, rel=REL)
+
+
+def test_tilted_ellipse_on_the_axis_is_refused() -> None:
+    # tilted, its revolution would not be the ellipse drawn: no half is taken
+    layout = Layout(parts=(Part("Egg", "electrode", Ellipse((0.0, 0.0), (3.0, 5.0), 30.0),
+                                volts=1.0),), symmetry="axisymmetric")
+    with pytest.raises(LayoutError, match="'Egg': reaches r = "):
+        validate_geometry(layout)
