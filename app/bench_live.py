@@ -1,0 +1,93 @@
+"""Benchmark of the live view: ``python -m app.bench_live [LAYOUT] [--edits N]``.
+
+Runs the real window offscreen with the live view attached and prints:
+
+* the time from an edit to the updated overlay during a scripted drag (draft solves),
+  its median, and the updates per second that gives;
+* the same edit solved directly with :func:`solver.solve` at ``draft`` (the baseline,
+  measured in this run) and the ratio of the two: the live view's overhead;
+* the longest stall of the GUI thread (gap between 5 ms timer ticks) while the full
+  solve on release runs in the background (target: under 50 ms).
+
+Figures, not pass/fail: the machine is noisy.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import statistics
+import time
+from dataclasses import replace
+
+
+def main(argv: list[str] | None = None) -> int:
+    ap = argparse.ArgumentParser(prog="python -m app.bench_live")
+    ap.add_argument("layout", nargs="?",
+                    default="sample_layouts/bench_supply_terminal.layout.json")
+    ap.add_argument("--edits", type=int, default=8)
+    args = ap.parse_args(argv)
+    os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+    from PySide6.QtCore import QTimer
+
+    import solver
+
+    from .cli_gui import build_window, make_app
+    from .shape_edit import translated
+
+    app = make_app()
+    w = build_window(args.layout)
+    w.files.confirm_discard = lambda: True
+    w.resize(1400, 900)
+    w.show()
+    live, doc = w.live, w.doc
+    gaps: list[float] = []
+    last = [time.perf_counter()]
+
+    def tick() -> None:
+        now = time.perf_counter()
+        gaps.append(now - last[0])
+        last[0] = now
+
+    timer = QTimer()
+    timer.timeout.connect(tick)
+    timer.start(5)
+
+    def pump_until(cond) -> None:  # noqa: ANN001
+        while not cond():
+            app.processEvents()
+            time.sleep(0.002)
+
+    pump_until(w.is_ready)
+    pid = doc.ids()[0]
+    doc.set_interacting(True)
+    live_s, direct_s = [], []
+    for _ in range(args.edits):
+        p = doc.part(pid)
+        doc.replace_part(pid, replace(p, shape=translated(p.shape, 0.5, 0.0)))
+        t0, rev = time.perf_counter(), doc.revision
+        pump_until(lambda r=rev: live.shown_revision == r and not live.runner.busy())
+        live_s.append(time.perf_counter() - t0)
+        t0 = time.perf_counter()
+        solver.solve(doc.to_layout(), "draft", estimate_error=False, capacitance=False)
+        direct_s.append(time.perf_counter() - t0)
+    gaps.clear()
+    last[0] = time.perf_counter()
+    doc.set_interacting(False)
+    t0 = time.perf_counter()
+    pump_until(lambda: not live.runner.busy())
+    full_s = time.perf_counter() - t0
+    med, base = statistics.median(live_s), statistics.median(direct_s)
+    print(f"layout: {args.layout} ({len(doc)} parts)")
+    print(f"edit -> overlay shown (draft): median {med * 1000:.0f} ms, "
+          f"{1 / med:.1f} updates/s over {args.edits} edits")
+    print(f"baseline solver.solve(draft) alone: median {base * 1000:.0f} ms; "
+          f"live/baseline ratio {med / base:.2f}")
+    print(f"full solve on release: {full_s:.2f} s; longest GUI-thread stall "
+          f"{max(gaps, default=0) * 1000:.0f} ms (target < 50 ms)")
+    live.runner.wait()
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
