@@ -85,11 +85,11 @@ def field_lines(solution: Solution, n_lines: int = 40, max_steps: int = 4000
     paths = [[q.copy()] for q in p]
     alive = np.ones(len(p), bool)
 
-    def direction(q: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    def direction(q: np.ndarray, s: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         fx, fy = _bilinear(x, y, (ex, ey), q)
         mag = np.hypot(fx, fy)
         d = np.column_stack([fx, fy]) / np.maximum(mag, 1e-300)[:, None]
-        return d * sign[:, None], mag
+        return d * s[:, None], mag
 
     for _ in range(max_steps):
         idx = np.flatnonzero(alive)
@@ -99,8 +99,8 @@ def field_lines(solution: Solution, n_lines: int = 40, max_steps: int = 4000
         ix = np.clip(np.searchsorted(x, q[:, 0]) - 1, 0, len(hx) - 1)
         iy = np.clip(np.searchsorted(y, q[:, 1]) - 1, 0, len(hy) - 1)
         h = 0.5 * np.minimum(hx[ix], hy[iy])
-        d1, mag = direction(q)
-        d2, _ = direction(q + h[:, None] * d1)
+        d1, mag = direction(q, sign[idx])
+        d2, _ = direction(q + h[:, None] * d1, sign[idx])
         q_new = q + 0.5 * h[:, None] * (d1 + d2)
         p[idx] = q_new
         jx = np.clip(np.searchsorted(x, q_new[:, 0]), 0, len(x) - 1)
