@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import argparse
 import sys
+from dataclasses import replace
 from pathlib import Path
 
 from solver.layout import RESOLUTION_NAMES, LayoutError, Resolution, load_layout
@@ -44,7 +45,10 @@ def solve_layout(args: argparse.Namespace) -> Solution | None:
     import solver
 
     try:
-        return solver.solve(load_layout(args.layout), resolution=args.resolution)
+        layout = load_layout(args.layout)
+        if args.resolution is not None:  # so the Solution's layout says what was used
+            layout = replace(layout, resolution=args.resolution)
+        return solver.solve(layout)
     except LayoutError as exc:
         print(f"stresslens: {exc}", file=sys.stderr)
         return None

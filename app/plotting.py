@@ -16,32 +16,21 @@ Units: coordinates mm, potential kV on labels (V in the Solution), field kV/mm.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 from matplotlib.axes import Axes
 from matplotlib.cm import ScalarMappable
-from matplotlib.colors import ListedColormap
-from matplotlib.patches import PathPatch
-from matplotlib.path import Path as MplPath
 from scipy.interpolate import RegularGridInterpolator
-from shapely.ops import polylabel
 
-from solver.geometry import part_outline
-from solver.layout import Part
 from solver.solution import Solution
 
-from . import palette
-from .report_numbers import fmt_num
+from .plot_markers import draw_hot_spots
+from .plot_parts import draw_parts
+from .plot_style import EQUIPOTENTIAL_COLOUR, FIELD_CMAP, FIELD_LINE_COLOUR, POTENTIAL_CMAP
 
 MAX_LEVELS = 200
 """Most equipotential levels drawn; a finer step is coarsened (and said so)."""
-
-MAX_LABELLED_HOT_SPOTS = 6
-"""Hot spots beyond this many (the weakest) are marked but not labelled."""
-
-SLIM_FRACTION = 0.035
-"""Parts with an inscribed radius below this share of the view get their caption beside them."""
 
 MAP_PIXELS = 700
 """Pixels along the longer side of the resampled colour map."""
@@ -64,62 +53,6 @@ class ReportOverlays:
     hot_spots: bool = True
     equipotential_step_V: float | None = None
     n_field_lines: int = 40
-
-
-@dataclass(frozen=True)
-class PartStyle:
-    """How one kind of part is drawn in print: hatch and outline line style.
-
-    Colours come from :mod:`app.palette` (the canvas's own); hatch and line style make
-    the kinds tell apart in a black-and-white print too.
-    """
-
-    hatch: str
-    linestyle: str | tuple[float, tuple[float, ...]]
-
-
-PART_STYLES: dict[str, PartStyle] = {
-    "electrode": PartStyle("////", "-"),
-    "floating": PartStyle("xxx", (0, (5.0, 2.0))),
-    "dielectric": PartStyle("...", (0, (1.2, 1.6))),
-}
-
-EQUIPOTENTIAL_COLOUR = "#2d3a4a"
-FIELD_LINE_COLOUR = "#96462a"
-HOT_SPOT_COLOUR = palette.HOT_SPOT.name()
-PEAK_COLOUR = "#111111"
-MAP_OPACITY = 0.45
-"""Share of the colour map in a map pixel, the rest is the canvas colour (as on screen)."""
-
-
-def part_colours(part: Part, solution: Solution) -> tuple[str, str, float]:
-    r"""(edge, face, face alpha) of a part, from the canvas palette.
-
-    An electrode's face runs from ground grey to amber with :math:`|V|/\max|V|`.
-    """
-    vmax = max((abs(p.volts or 0.0) for p in solution.parts if p.kind != "dielectric"),
-               default=0.0)
-    volts = solution.part(part.name).volts
-    edge, face = palette.part_colours(part.kind, volts, vmax)
-    return edge.name(), face.name(), face.alphaF()
-
-
-def _blended(name: str, opacity: float, n: int = 256) -> ListedColormap:
-    """A matplotlib colour map laid at ``opacity`` over the canvas colour.
-
-    The blend keeps the lightness monotone (so the map stays perceptually ordered and
-    prints as an ordered grey ramp) and leaves dark lines legible everywhere on it.
-    """
-    from matplotlib import colormaps
-
-    rgba = colormaps[name](np.linspace(0.0, 1.0, n))
-    bg = np.array(palette.CANVAS.getRgbF()[:3])
-    rgba[:, :3] = opacity * rgba[:, :3] + (1.0 - opacity) * bg
-    return ListedColormap(rgba, name=f"stresslens_{name}_print")
-
-
-POTENTIAL_CMAP = _blended("cividis", MAP_OPACITY)
-FIELD_CMAP = _blended("magma_r", 0.8)
 
 
 def axis_names(solution: Solution) -> tuple[str, str]:
@@ -157,7 +90,8 @@ def equipotential_levels(solution: Solution, step_V: float | None) -> tuple[np.n
         step = auto
     k0, k1 = math.floor(lo / step) + 1, math.ceil(hi / step) - 1
     levels = np.arange(k0, k1 + 1) * step
-    return levels[(levels > lo) & (levels < hi)], coarsened
+    tol = 1e-6 * span  # round-off below a grounded wall must not make a 0 V level
+    return levels[(levels > lo + tol) & (levels < hi - tol)], coarsened
 
 
 def _view_slice(coords: np.ndarray, lo: float, hi: float) -> slice:
@@ -217,7 +151,7 @@ def draw_equipotentials(ax: Axes, solution: Solution, overlays: ReportOverlays,
     sx, sy = _view_slice(solution.x_mm, x0, x1), _view_slice(solution.y_mm, y0, y1)
     cs = ax.contour(solution.x_mm[sx], solution.y_mm[sy], solution.phi[sy, sx] / 1e3,
                     levels=levels / 1e3, colors=EQUIPOTENTIAL_COLOUR, linewidths=0.7,
-                    zorder=2)
+                    negative_linestyles="solid", zorder=2)
     ax.clabel(cs, inline=True, fontsize=fontsize, fmt=_kV_label, inline_spacing=2)
     return coarsened
 
@@ -267,131 +201,59 @@ def _field_arrow(ax: Axes, line: np.ndarray, ex: RegularGridInterpolator,
                             "mutation_scale": 7, "shrinkA": 0, "shrinkB": 0})
 
 
-def part_caption(part: Part, solution: Solution) -> str:
-    """Name and the number that defines the part: kV, solved kV, or permittivity."""
-    if part.kind == "dielectric":
-        return f"{part.name}\nεr = {part.permittivity:g}"
-    volts = solution.part(part.name).volts
-    if volts is None:
-        return part.name
-    prefix = "floating, " if part.kind == "floating" else ""
-    return f"{part.name}\n{prefix}{volts / 1e3:.4g} kV"
+def fitted_view(solution: Solution, aspect: float | None) -> tuple[float, float, float, float]:
+    """The solver's view box widened to ``aspect`` (width / height), within the grid.
 
-
-def draw_parts(ax: Axes, solution: Solution, label: bool = True, fontsize: float = 7.5) -> None:
-    """Outlines filled and hatched by kind, and each part's caption at its pole.
-
-    The caption sits at the pole of inaccessibility of the part (the interior point
-    farthest from the outline), so it lands inside thin walls and annular parts too.
+    The shorter side grows about the centre so the drawing fills the axes; the grid
+    reaches beyond the view box, so the added margin shows computed field, never blank.
+    In an axisymmetric layout the view starts at most 3 % of its width left of the axis;
+    no view reaches past the grid (a boxed layout ends at its walls).
     """
-    for part in solution.layout.parts:
-        outline = part_outline(part)
-        style = PART_STYLES[part.kind]
-        edge, fill, alpha = part_colours(part, solution)
-        verts, codes = [], []
-        for ring in outline.rings:
-            closed = np.vstack([ring, ring[:1]])
-            verts.append(closed)
-            codes += [MplPath.MOVETO] + [MplPath.LINETO] * (len(ring) - 1) + [MplPath.CLOSEPOLY]
-        path = MplPath(np.vstack(verts), codes)
-        face = PathPatch(path, facecolor=fill, edgecolor=edge, lw=0.0, alpha=alpha,
-                         hatch=style.hatch, zorder=4 if part.is_conductor else 1)
-        if hasattr(face, "set_hatch_linewidth"):  # matplotlib >= 3.10
-            face.set_hatch_linewidth(0.4)
-        ax.add_patch(face)
-        ax.add_patch(PathPatch(path, facecolor="none", edgecolor=edge, lw=1.3,
-                               linestyle=style.linestyle, zorder=5))
-        if label:
-            _label_part(ax, part, outline.polygon, solution, fontsize, edge)
-
-
-def _label_part(ax: Axes, part: Part, polygon: object, solution: Solution,
-                fontsize: float, edge: str) -> None:
-    """Caption at the part's pole; beside it, with a leader, when the part is too slim.
-
-    A part whose inscribed radius is under :data:`SLIM_FRACTION` of the view is captioned
-    off to the side, towards the middle of the view, so the box does not hide it.
-    """
-    x0, y0, x1, y1 = solution.view_box_mm
-    span = max(x1 - x0, y1 - y0)
-    pole = polylabel(polygon, tolerance=span * 1e-3)
-    if not (x0 <= pole.x <= x1 and y0 <= pole.y <= y1):
-        return
-    box = {"boxstyle": "round,pad=0.25", "fc": "white", "ec": edge, "lw": 0.6, "alpha": 0.9}
-    inscribed = polygon.exterior.distance(pole)  # type: ignore[attr-defined]
-    for hole in polygon.interiors:  # type: ignore[attr-defined]
-        inscribed = min(inscribed, hole.distance(pole))
-    text = part_caption(part, solution)
-    if inscribed >= SLIM_FRACTION * span:
-        ax.text(pole.x, pole.y, text, ha="center", va="center", fontsize=fontsize, zorder=8,
-                clip_on=True, linespacing=1.1, bbox=box)
-        return
-    d = np.array([(x0 + x1) / 2 - pole.x, (y0 + y1) / 2 - pole.y])
-    d = d / np.hypot(*d) if np.any(d) else np.array([0.0, 1.0])
-    ax.annotate(text, xy=(pole.x, pole.y), xytext=tuple(36 * d), textcoords="offset points",
-                ha="center", va="center", fontsize=fontsize, zorder=8, linespacing=1.1,
-                bbox=box, arrowprops={"arrowstyle": "-", "color": edge, "lw": 0.8})
-
-
-def peak_location(solution: Solution) -> tuple[str, tuple[float, float], float] | None:
-    """(part, (x, y) mm, |E| kV/mm) of the largest surface field, as the solver reports it.
-
-    Conductors count with their peak surface field, dielectrics with the gas-side field
-    on their outline (the field inside a dielectric body is not a surface field).
-    """
-    best: tuple[str, tuple[float, float], float] | None = None
-    for p in solution.parts:
-        if p.kind == "dielectric":
-            if p.surface_field_kV_per_mm is None or p.surface_peak_at_mm is None:
-                continue
-            value, at = p.surface_field_kV_per_mm, p.surface_peak_at_mm
+    x0, y0, x1, y1 = (float(v) for v in solution.view_box_mm)
+    if aspect is not None and aspect > 0:
+        w, h = x1 - x0, y1 - y0
+        if w / h < aspect:
+            x0, x1 = _grow(x0, x1, h * aspect, solution.x_mm)
         else:
-            value, at = p.peak_field_kV_per_mm, p.peak_at_mm
-        if math.isfinite(value) and (best is None or value > best[2]):
-            best = (p.name, (float(at[0]), float(at[1])), float(value))
-    return best
+            y0, y1 = _grow(y0, y1, w / aspect, solution.y_mm)
+    if solution.layout.symmetry == "axisymmetric":
+        x0 = max(x0, -0.03 * (x1 - x0))
+    x0, x1 = max(x0, float(solution.x_mm[0])), min(x1, float(solution.x_mm[-1]))
+    y0, y1 = max(y0, float(solution.y_mm[0])), min(y1, float(solution.y_mm[-1]))
+    return x0, y0, x1, y1
 
 
-def draw_hot_spots(ax: Axes, solution: Solution, overlays: ReportOverlays,
-                   fontsize: float = 7.0) -> None:
-    """Hot-spot triangles labelled 'E > limit', and a star at the peak surface field.
+def _grow(lo: float, hi: float, size: float, coords: np.ndarray) -> tuple[float, float]:
+    """[lo, hi] widened to ``size`` about its middle, shifted or cut to lie in the grid."""
+    mid = 0.5 * (lo + hi)
+    lo, hi = mid - size / 2, mid + size / 2
+    g0, g1 = float(coords[0]), float(coords[-1])
+    if lo < g0:
+        lo, hi = g0, min(g1, hi + (g0 - lo))
+    if hi > g1:
+        lo, hi = max(g0, lo - (hi - g1)), g1
+    return lo, hi
 
-    Only the :data:`MAX_LABELLED_HOT_SPOTS` strongest are labelled; all are marked.
-    """
-    if not overlays.hot_spots:
+
+def draw_axis_of_symmetry(ax: Axes, solution: Solution) -> None:
+    """A dash-dot line on r = 0 and a light veil over r < 0 (axisymmetric layouts only)."""
+    if solution.layout.symmetry != "axisymmetric":
         return
-    spots = sorted(solution.hot_spots, key=lambda h: -h.field_kV_per_mm)
-    for k, h in enumerate(spots):
-        ax.plot(*h.at_mm, marker="^", ms=9, mfc=HOT_SPOT_COLOUR, mec="white", mew=1.0,
-                zorder=9, ls="none")
-        if k < MAX_LABELLED_HOT_SPOTS:
-            _callout(ax, h.at_mm, f"{fmt_num(h.field_kV_per_mm)} kV/mm\n> limit "
-                     f"{fmt_num(h.limit_kV_per_mm)}", HOT_SPOT_COLOUR, k, fontsize)
-    peak = peak_location(solution)
-    if peak is not None:
-        ax.plot(*peak[1], marker="*", ms=13, mfc="white", mec=PEAK_COLOUR, mew=1.0, zorder=10,
-                ls="none")
-        if not spots:
-            _callout(ax, peak[1], f"peak {fmt_num(peak[2])} kV/mm", PEAK_COLOUR, 0, fontsize)
+    x0, y0, x1, y1 = solution.view_box_mm
+    if x0 < 0:
+        ax.axvspan(x0, 0.0, color="#e9e6df", zorder=6, lw=0)
+    ax.axvline(0.0, color="#55606e", lw=0.9, ls=(0, (8, 2, 1.5, 2)), zorder=7)
 
 
-def _callout(ax: Axes, at: tuple[float, float], text: str, colour: str, k: int,
-             fontsize: float) -> None:
-    """A boxed label offset from a point, with a leader line; offsets fan out by index."""
-    angle = math.radians(40 + 70 * k)
-    dx, dy = 34 * math.cos(angle), 28 * math.sin(angle)
-    ax.annotate(text, xy=at, xytext=(dx, dy), textcoords="offset points", fontsize=fontsize,
-                ha="center", va="center", zorder=11, color="#1b1b1b",
-                bbox={"boxstyle": "round,pad=0.3", "fc": "white", "ec": colour, "lw": 1.0},
-                arrowprops={"arrowstyle": "-", "color": colour, "lw": 0.9})
-
-
-def draw_solution(ax: Axes, solution: Solution, overlays: ReportOverlays) -> tuple[
-        ScalarMappable | None, list[str]]:
+def draw_solution(ax: Axes, solution: Solution, overlays: ReportOverlays,
+                  aspect: float | None = None) -> tuple[ScalarMappable | None, list[str]]:
     """Draw everything ``overlays`` asks for; return the colour-map artist and notes.
 
-    The notes are sentences for the caption (e.g. a coarsened equipotential step).
+    ``aspect`` (width / height of the axes box) widens the view to fill it, see
+    :func:`fitted_view`.  The notes are sentences for the caption (e.g. a coarsened
+    equipotential step).
     """
+    solution = replace(solution, view_box_mm=fitted_view(solution, aspect))
     notes: list[str] = []
     mappable = draw_colour_map(ax, solution, overlays)
     if draw_equipotentials(ax, solution, overlays):
@@ -399,7 +261,9 @@ def draw_solution(ax: Axes, solution: Solution, overlays: ReportOverlays) -> tup
                      f"{nice_step(float(np.ptp(solution.phi))) / 1e3:g} kV")
     draw_field_lines(ax, solution, overlays)
     draw_parts(ax, solution)
-    draw_hot_spots(ax, solution, overlays)
+    draw_axis_of_symmetry(ax, solution)
+    if overlays.hot_spots:
+        draw_hot_spots(ax, solution)
     x0, y0, x1, y1 = solution.view_box_mm
     ax.set_xlim(x0, x1)
     ax.set_ylim(y0, y1)

@@ -27,23 +27,24 @@ from solver.solution import Solution
 from . import palette
 from .atomic_file import write_atomically
 from .caution import CAUTION
-from .plotting import (
+from .plot_labels import place_axes_labels
+from .plot_markers import peak_location
+from .plot_style import (
     EQUIPOTENTIAL_COLOUR,
     FIELD_LINE_COLOUR,
     HOT_SPOT_COLOUR,
     PART_STYLES,
     PEAK_COLOUR,
-    ReportOverlays,
-    draw_solution,
-    peak_location,
 )
-from .report_numbers import fmt_num
+from .plotting import ReportOverlays, draw_solution
+from .report_numbers import fmt_num, fmt_point
 from .report_tables import (
     describe_boundary,
     describe_limit,
     describe_resolution,
     render_tables_page,
     summary_rows,
+    view_decimals,
 )
 
 __all__ = ["FIGURE_DPI", "FIGURE_SIZE_IN", "REPORT_FORMATS", "ReportError", "ReportOverlays",
@@ -56,6 +57,12 @@ FIGURE_DPI = 150
 """Pixels per inch of a PNG report: 1754 x 1240 pixels."""
 
 REPORT_FORMATS = (".pdf", ".png", ".svg")
+
+MAP_AXES = (0.06, 0.13, 0.56, 0.76)
+"""Left, bottom, width, height of the drawing, in figure fractions."""
+
+TITLE_CHARS_AT_15PT = 84
+"""Characters of a bold 15 pt title that fit across the page (measured, DejaVu Sans)."""
 
 MAX_SUMMARY_ROWS = 8
 """Parts listed on the figure; the PDF's second page lists them all."""
@@ -71,13 +78,14 @@ def render_figure(solution: Solution, overlays: ReportOverlays | None = None,
     overlays = overlays or ReportOverlays()
     when = when or datetime.now(timezone.utc)
     fig = Figure(figsize=FIGURE_SIZE_IN)
-    ax = fig.add_axes((0.06, 0.13, 0.56, 0.76))
-    mappable, notes = draw_solution(ax, solution, overlays)
+    ax = fig.add_axes(MAP_AXES)
+    mappable, notes = draw_solution(ax, solution, overlays, aspect=_axes_aspect(fig))
     if mappable is not None:
         label = ("field strength |E| (kV/mm)" if overlays.field_strength_map
                  else "potential (kV)")
         cbar = fig.colorbar(mappable, ax=ax, fraction=0.045, pad=0.02, shrink=0.85)
         cbar.set_label(label)
+    place_axes_labels(ax)
     _header(fig, solution, source_name, when)
     table_bottom = _summary(fig, solution)
     _legend(fig, solution, overlays, table_bottom - 0.04)
@@ -86,9 +94,20 @@ def render_figure(solution: Solution, overlays: ReportOverlays | None = None,
     return fig
 
 
+def _axes_aspect(fig: Figure) -> float:
+    """Width / height of the drawing's box in inches, less room for the colour bar."""
+    w_in = MAP_AXES[2] * fig.get_figwidth() * 0.9
+    return w_in / (MAP_AXES[3] * fig.get_figheight())
+
+
 def _header(fig: Figure, solution: Solution, source_name: str, when: datetime) -> None:
     title = solution.layout.title or source_name or "Stresslens layout"
-    fig.text(0.06, 0.955, title, fontsize=15, weight="bold", va="top")
+    size = min(15.0, 15.0 * TITLE_CHARS_AT_15PT / max(len(title), 1))
+    if size < 9.0:
+        size = 9.0
+        keep = int(TITLE_CHARS_AT_15PT * 15.0 / 9.0) - 1
+        title = title[:keep].rstrip() + "…"
+    fig.text(0.06, 0.955, title, fontsize=size, weight="bold", va="top")
     sub = " · ".join(s for s in (source_name, f"{solution.layout.symmetry} cross-section",
                                  f"solved {when:%Y-%m-%d %H:%M} UTC") if s)
     fig.text(0.06, 0.918, sub, fontsize=9, color="#555555", va="top")
@@ -105,7 +124,7 @@ def _summary(fig: Figure, solution: Solution) -> float:
         value += f"  ± {err:.2g} %"
     fig.text(x, y - 0.028, value, fontsize=17, weight="bold", va="top")
     if peak is not None:
-        fig.text(x, y - 0.075, f"on {peak[0]} at ({peak[1][0]:.4g}, {peak[1][1]:.4g}) mm",
+        fig.text(x, y - 0.075, f"on {peak[0]} at {fmt_point(peak[1], view_decimals(solution))} mm",
                  fontsize=9, va="top")
     n_hot = len(solution.hot_spots)
     verdict = (f"{n_hot} hot spot{'s' * (n_hot != 1)} above the limit" if n_hot
@@ -145,7 +164,7 @@ def _legend(fig: Figure, solution: Solution, overlays: ReportOverlays, top: floa
         if any(p.kind == kind for p in solution.layout.parts):
             edge, face = (c.name() for c in palette.part_colours(kind, 1.0, 1.0))
             s = PART_STYLES[kind]
-            label = {"electrode": "electrode (fill: grey 0 V to amber max)",
+            label = {"electrode": "electrode (fill: grey 0 V, amber +, blue −)",
                      "floating": "floating conductor", "dielectric": "dielectric"}[kind]
             handles.append(Patch(facecolor=face, edgecolor=edge, hatch=s.hatch,
                                  linestyle=s.linestyle, label=label))
@@ -168,9 +187,10 @@ def _settings(fig: Figure, solution: Solution) -> None:
     """Limit, boundary, resolution and grid size, so the figure stands alone."""
     lay = solution.layout
     lines = [f"limit: {describe_limit(lay)}", f"boundary: {describe_boundary(lay)}",
-             f"resolution: {describe_resolution(lay)}; {solution.unknowns:,} unknowns, "
-             f"solved in {solution.solve_seconds:.2g} s"]
-    fig.text(0.70, 0.105, "\n".join(lines), fontsize=7.5, va="bottom", ha="left",
+             f"resolution: {describe_resolution(solution)}",
+             f"{solution.unknowns:,} unknowns, solved in {solution.solve_seconds:.2g} s"]
+    wrapped = [w for line in lines for w in textwrap.wrap(line, 62, subsequent_indent="  ")]
+    fig.text(0.70, 0.105, "\n".join(wrapped), fontsize=7.5, va="bottom", ha="left",
              color="#444444", linespacing=1.5)
 
 

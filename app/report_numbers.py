@@ -12,11 +12,24 @@ def fmt_num(v: float | None, digits: int = 4) -> str:
     return f"{v:.{digits}g}"
 
 
-def fmt_point(p: tuple[float, float] | None) -> str:
-    """A point in mm as '(x, y)'."""
+def point_decimals(span_mm: float) -> int:
+    """Decimals for coordinates in a drawing ``span_mm`` across: about 1/1000 of it.
+
+    :math:`d = \\max(0, 3 - \\lceil\\log_{10} s\\rceil)`: 350 mm gives 0, 66 mm 1, 9 mm 2.
+    """
+    if not span_mm > 0 or not math.isfinite(span_mm):
+        return 3
+    return max(0, 3 - math.ceil(math.log10(span_mm)))
+
+
+def fmt_point(p: tuple[float, float] | None, decimals: int | None = None) -> str:
+    """A point in mm as '(x, y)': fixed ``decimals``, or 4 significant figures."""
     if p is None:
         return "–"
-    return f"({p[0]:.4g}, {p[1]:.4g})"
+    if decimals is None:
+        return f"({p[0]:.4g}, {p[1]:.4g})"
+    x, y = (round(v, decimals) + 0.0 for v in p)  # + 0.0 turns -0.0 into 0.0
+    return f"({x:.{decimals}f}, {y:.{decimals}f})"
 
 
 def fmt_si(v: float | None, unit: str) -> str:

@@ -17,11 +17,12 @@ from datetime import datetime
 import numpy as np
 from matplotlib.figure import Figure
 
+from solver.geometry import part_outline
 from solver.layout import FixedLimit, Layout
 from solver.solution import PartResult, Solution
 
 from .caution import CAUTION
-from .report_numbers import fmt_num, fmt_point, fmt_si
+from .report_numbers import fmt_num, fmt_point, fmt_si, point_decimals
 
 A4_PORTRAIT_IN = (8.27, 11.69)
 MAX_HOT_SPOT_ROWS = 18
@@ -66,17 +67,30 @@ def _peak_with_error(p: PartResult) -> str:
     return text
 
 
+def view_decimals(solution: Solution) -> int:
+    """Decimals for coordinates: a thousandth of the view, a hundredth of the smallest part.
+
+    So a 2 mm wire in a 200 mm duct still gets its peak located to 0.1 mm.
+    """
+    x0, y0, x1, y1 = solution.view_box_mm
+    smallest = min((min(b[2] - b[0], b[3] - b[1]) for b in
+                    (part_outline(p).polygon.bounds for p in solution.layout.parts)),
+                   default=float("inf"))
+    return max(point_decimals(max(x1 - x0, y1 - y0)), point_decimals(10.0 * smallest))
+
+
 def part_rows(solution: Solution) -> list[list[str]]:
     """Page-2 parts table, one row per part (dielectrics: gas-side surface field too)."""
+    d = view_decimals(solution)
     rows = []
     for p in solution.parts[:MAX_PART_ROWS]:
         volts = "–" if p.volts is None else fmt_num(p.volts / 1e3)
         if p.kind == "floating" and p.volts is not None:
             volts += " (solved)"
-        where = fmt_point(p.peak_at_mm)
+        where = fmt_point(p.peak_at_mm, d)
         if p.kind == "dielectric":
             where += f"; surface {fmt_num(p.surface_field_kV_per_mm)} at " \
-                     f"{fmt_point(p.surface_peak_at_mm)}"
+                     f"{fmt_point(p.surface_peak_at_mm, d)}"
         rows.append([p.name, p.kind, volts, _peak_with_error(p), where,
                      fmt_num(p.limit_at_peak_kV_per_mm),
                      f"{p.margin_percent:+.1f}" if math.isfinite(p.margin_percent) else "–"])
@@ -86,7 +100,8 @@ def part_rows(solution: Solution) -> list[list[str]]:
 def hot_spot_rows(solution: Solution) -> tuple[list[list[str]], int]:
     """Hot spots, strongest first, at most :data:`MAX_HOT_SPOT_ROWS`; and how many more."""
     spots = sorted(solution.hot_spots, key=lambda h: -h.field_kV_per_mm)
-    rows = [[h.part, fmt_point(h.at_mm), fmt_num(h.field_kV_per_mm),
+    d = view_decimals(solution)
+    rows = [[h.part, fmt_point(h.at_mm, d), fmt_num(h.field_kV_per_mm),
              fmt_num(h.limit_kV_per_mm), "", f"{h.s_from_mm:.4g} – {h.s_to_mm:.4g}"]
             for h in spots[:MAX_HOT_SPOT_ROWS]]
     return rows, max(len(spots) - MAX_HOT_SPOT_ROWS, 0)
@@ -132,9 +147,13 @@ def describe_limit(layout: Layout) -> str:
             f"°C, surface factor {fmt_num(lim.surface_factor)}")
 
 
-def describe_resolution(layout: Layout) -> str:
-    """The resolution setting: a name or the finest spacing in mm."""
-    r = layout.resolution
+def describe_resolution(solution: Solution) -> str:
+    """The layout's resolution setting: draft, normal, fine or the finest spacing in mm.
+
+    The headless commands write a ``--resolution`` override into the layout they solve,
+    so the setting printed is the one used.
+    """
+    r = solution.layout.resolution
     return r if isinstance(r, str) else f"finest spacing {fmt_num(r)} mm"
 
 
@@ -142,7 +161,7 @@ def settings_rows(solution: Solution) -> list[list[str]]:
     """Symmetry, boundary, limit and resolution."""
     lay = solution.layout
     return [["symmetry", lay.symmetry], ["boundary", describe_boundary(lay)],
-            ["field limit", describe_limit(lay)], ["resolution", describe_resolution(lay)]]
+            ["field limit", describe_limit(lay)], ["resolution", describe_resolution(solution)]]
 
 
 def statistics_rows(solution: Solution) -> list[list[str]]:
