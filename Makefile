@@ -5,6 +5,7 @@
 #   make test      set up, then run the test suite (slow checks deselected)
 #   make test-all  the same with the slow checks too
 #   make bench     the solver benchmark (figures as ratios against a same-run baseline)
+#   make docs      regenerate the README's pictures under docs/
 #   make setup     only the set-up: Debian libraries Qt needs, .venv, the project
 #
 # The set-up is idempotent: a stamp in .venv keyed by a hash of pyproject.toml makes a
@@ -28,7 +29,7 @@ DEB_PACKAGES := libglib2.0-0 libegl1 libgl1 libx11-6 libdbus-1-3 libfontconfig1 
 PYPROJECT_HASH := $(shell sha256sum pyproject.toml 2>/dev/null | cut -c1-16)
 STAMP := $(VENV)/.stresslens-installed-$(PYPROJECT_HASH)
 
-.PHONY: setup system-packages run test test-all bench clean-venv
+.PHONY: setup system-packages run test test-all docs bench clean-venv
 
 setup: system-packages $(STAMP)
 
@@ -89,6 +90,13 @@ test: setup
 
 test-all: setup
 	@$(BIN)/python -m pytest -m 'slow or not slow'; $(PYTEST_NO_TESTS_IS_FAILURE)
+
+# The pictures in the README: the editor window on the main sample and its report figure.
+docs: setup
+	QT_QPA_PLATFORM=offscreen MPLBACKEND=Agg $(BIN)/stresslens $(SAMPLE) \
+	  --screenshot docs/main_window.png --size 1400x900
+	QT_QPA_PLATFORM=offscreen MPLBACKEND=Agg $(BIN)/stresslens report $(SAMPLE) \
+	  -o docs/report.png
 
 bench: setup
 	$(BIN)/python -m solver.bench
