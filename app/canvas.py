@@ -112,8 +112,7 @@ class Canvas(QGraphicsView):
             self.scene_.removeItem(item)
         self.items_by_id.clear()
         for pid in self.doc.ids():
-            self.items_by_id[pid] = PartItem(pid)
-            self.scene_.addItem(self.items_by_id[pid])
+            self._new_item(pid)
         self._restyle_all()
         self.zoom_to_fit()
 
@@ -126,9 +125,14 @@ class Canvas(QGraphicsView):
             item.highlighted = pid in self.selection
             item.set_part(self.doc.part(pid), vmax)
 
+    def _new_item(self, pid: int) -> PartItem:
+        item = PartItem(pid, self.px_per_mm())
+        self.items_by_id[pid] = item
+        self.scene_.addItem(item)
+        return item
+
     def _on_part_added(self, pid: int) -> None:
-        self.items_by_id[pid] = PartItem(pid)
-        self.scene_.addItem(self.items_by_id[pid])
+        self._new_item(pid)
         self._restyle_all()
 
     def _on_part_removed(self, pid: int) -> None:
@@ -213,6 +217,8 @@ class Canvas(QGraphicsView):
 
     def _sync_scale(self) -> None:
         ppm = self.px_per_mm()
+        for item in self.items_by_id.values():
+            item.place_label(ppm)
         self.ctx.tol_mm = PICK_PX / ppm
         self.ctx.snapper.grid_mm = grid_steps(ppm)[0]
         self.viewport().update()

@@ -88,9 +88,8 @@ def build_window(layout_path: str | None):  # noqa: ANN201 - MainWindow
 
     A bad file is reported in a dialog by the window itself; the window stays open.
     """
-    from .main_window import MainWindow
-
     from .live_view import attach_live_view
+    from .main_window import MainWindow
 
     window = MainWindow()
     attach_live_view(window)

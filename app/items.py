@@ -82,13 +82,15 @@ class PartLabelItem(QGraphicsItem):
 class PartItem(QGraphicsPathItem):
     """One part on the canvas: outline and fill in the colours of its kind, and a label."""
 
-    def __init__(self, pid: int) -> None:
+    def __init__(self, pid: int, px_per_mm: float = 1.0) -> None:
         super().__init__()
         self.pid = pid
         self.part: Part | None = None
         self.valid = True
         self.highlighted = False
         self.label = PartLabelItem(self)
+        self._inside = QPointF()
+        self._px_per_mm = px_per_mm
         self.setAcceptedMouseButtons(Qt.MouseButton.NoButton)
 
     def set_part(self, part: Part, max_abs_volts: float) -> None:
@@ -101,7 +103,20 @@ class PartItem(QGraphicsPathItem):
                                                         part.permittivity)])
         reg = se.region(part.shape)
         at = reg.representative_point() if reg is not None and reg.is_valid else None
-        self.label.setPos(QPointF(at.x, at.y) if at is not None else path.boundingRect().center())
+        self._inside = QPointF(at.x, at.y) if at is not None else path.boundingRect().center()
+        self.place_label(self._px_per_mm)
+
+    def place_label(self, px_per_mm: float) -> None:
+        """Put the label inside the part, or beside it when the part is too small on screen."""
+        self._px_per_mm = px_per_mm
+        box = self.path().boundingRect()
+        lab = self.label.boundingRect()
+        if box.width() * px_per_mm >= lab.width() + 6 and box.height() * px_per_mm >= \
+                lab.height() + 4:
+            self.label.setPos(self._inside)
+        else:
+            gap = (lab.width() / 2 + 6) / px_per_mm
+            self.label.setPos(QPointF(box.right() + gap, box.center().y()))
 
     def set_highlighted(self, on: bool, max_abs_volts: float) -> None:
         self.highlighted = on

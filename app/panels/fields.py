@@ -15,7 +15,7 @@ class NumberField(QDoubleSpinBox):
     value shown is updated from the model without triggering a commit.
     """
 
-    def __init__(self, unit: str, on_commit: Callable[[float], None], decimals: int = 4,
+    def __init__(self, unit: str, on_commit: Callable[[float], None], decimals: int = 3,
                  lo: float = -1.0e6, hi: float = 1.0e6, step: float = 1.0,
                  parent: QWidget | None = None) -> None:
         super().__init__(parent)

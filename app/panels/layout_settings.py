@@ -36,13 +36,12 @@ class LayoutSettingsPanel(QWidget):
         self.title = TextField(lambda t: self._apply(title=t))
         self.symmetry = QComboBox()
         self.symmetry.addItems(["Planar (x, y)", "Axisymmetric (r, z)"])
-        self.symmetry.currentIndexChanged.connect(
-            lambda i: self._apply(symmetry=("planar", "axisymmetric")[i]))
+        self.symmetry.currentIndexChanged.connect(self._set_symmetry)
         self.resolution = QComboBox()
         self.resolution.addItems(["Draft", "Normal", "Fine", "Finest spacing"])
         self.resolution.currentIndexChanged.connect(self._set_resolution)
-        self.spacing = NumberField("mm", lambda v: self._apply(resolution=v), lo=1e-4, hi=1e3,
-                                   step=0.05)
+        self.spacing = NumberField("mm", lambda v: self._apply(resolution=v), decimals=4,
+                                   lo=1e-4, hi=1e3, step=0.05)
         g.addRow("Title", self.title)
         g.addRow("Symmetry", self.symmetry)
         g.addRow("Resolution", self.resolution)
@@ -138,6 +137,14 @@ class LayoutSettingsPanel(QWidget):
         after = replace(self.doc.settings, **changes)
         if after != self.doc.settings:
             self.stack.push(ChangeSettingsCommand(self.doc, after))
+
+    def _set_symmetry(self, index: int) -> None:
+        """Planar or axisymmetric; an axisymmetric box boundary starts at the axis (r = 0)."""
+        symmetry = ("planar", "axisymmetric")[index]
+        b = self.doc.settings.boundary
+        if symmetry == "axisymmetric" and b.type == "box" and b.min is not None:
+            b = replace(b, min=(0.0, b.min[1]))
+        self._apply(symmetry=symmetry, boundary=b)
 
     def _set_resolution(self, index: int) -> None:
         if index < 3:

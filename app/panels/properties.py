@@ -22,6 +22,9 @@ from ..tools.base import DEFAULT_VALUES
 from .fields import NumberField, TextField
 from .shape_form import ShapeForm, form_key
 
+SHAPE_NAMES = {"circle": "Circle", "ellipse": "Ellipse", "rect": "Rectangle",
+               "polygon": "Polygon", "path": "Wire"}
+
 
 class PropertiesPanel(QWidget):
     """Shows and edits the one selected part; says how many are selected otherwise."""
@@ -41,7 +44,8 @@ class PropertiesPanel(QWidget):
         self.kind = QComboBox()
         self.kind.addItems([k.capitalize() for k in KINDS])
         self.kind.currentIndexChanged.connect(self._set_kind)
-        self.volts = NumberField("kV", lambda v: self._set_value("volts", v * 1e3), step=0.5)
+        self.volts = NumberField("kV", lambda v: self._set_value("volts", v * 1e3), decimals=3,
+                                 step=0.5)
         self.charge = NumberField("nC/m", lambda v: self._set_value("charge", v * 1e-9), step=0.1)
         self.eps = NumberField("", lambda v: self._set_value("permittivity", v), lo=1.0,
                                hi=1e5, step=0.1)
@@ -75,7 +79,7 @@ class PropertiesPanel(QWidget):
                                  if not ids else f"{len(ids)} parts selected.")
             return
         part = self.doc.part(self.pid)
-        self.caption.setText(f"{part.shape.type.capitalize()} \u2014 sizes in mm")
+        self.caption.setText(f"{SHAPE_NAMES[part.shape.type]} \u2014 lengths in mm")
         self.name.show_text(part.name)
         with QSignalBlocker(self.kind):
             self.kind.setCurrentIndex(KINDS.index(part.kind))

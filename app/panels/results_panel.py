@@ -95,6 +95,7 @@ class ResultsPanel(QWidget):
             item = QListWidgetItem(f"{hs.part}: {hot_spot_text(hs)} at "
                                    f"({hs.at_mm[0]:.2f}, {hs.at_mm[1]:.2f}) mm")
             item.setForeground(QBrush(HOT_SPOT))
+            item.setToolTip(item.text())
             item.setData(Qt.ItemDataRole.UserRole, hs.at_mm)
             self.hot_list.addItem(item)
         if not sol.hot_spots:

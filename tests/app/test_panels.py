@@ -1,0 +1,131 @@
+"""Panels and window actions: every edit lands in the document as one undoable step."""
+
+from __future__ import annotations
+
+import pytest
+from editor_layouts import every_shape_layout
+from editor_window import open_window
+from PySide6.QtCore import Qt
+from PySide6.QtWidgets import QInputDialog
+
+from solver.layout import FixedLimit, PeekLimit, layout_to_json
+
+ORIGINAL = layout_to_json(every_shape_layout())
+
+
+@pytest.fixture
+def win(qtbot, tmp_path):  # noqa: ANN001, ANN201
+    return open_window(qtbot, tmp_path, every_shape_layout())
+
+
+def _commit(field, value: float) -> None:  # noqa: ANN001
+    field.setFocus()
+    field.setValue(value)
+    field.editingFinished.emit()
+
+
+def test_properties_edit_potential_in_kV_and_radius_in_mm(win) -> None:  # noqa: ANN001
+    ball = win.doc.id_of("Ball")
+    win.selection.set([ball])
+    panel = win.properties_panel
+    panel.kind.setCurrentIndex(0)  # floating -> electrode, at 0 V
+    assert win.doc.part(ball).kind == "electrode" and win.doc.part(ball).volts == 0.0
+    _commit(panel.volts, -7.5)
+    assert win.doc.part(ball).volts == -7500.0
+    radius = panel.shape_form.fields[2][0]
+    _commit(radius, 4.25)
+    assert win.doc.part(ball).shape.radius == 4.25
+    assert win.stack.count() == 3
+    for _ in range(3):
+        win.stack.undo()
+    assert win.doc.to_json() == ORIGINAL
+
+
+def test_rename_refuses_a_taken_name(win) -> None:  # noqa: ANN001
+    win.selection.set([win.doc.id_of("Ball")])
+    name = win.properties_panel.name
+    name.setText("Bar")
+    name.editingFinished.emit()
+    assert win.doc.id_of("Ball") is not None and win.stack.count() == 0
+    assert "already used" in win.statusBar().currentMessage()
+    name.setText("Sphere")
+    name.editingFinished.emit()
+    assert win.doc.id_of("Sphere") is not None
+
+
+def test_vertex_table_edit_and_bad_number(win) -> None:  # noqa: ANN001
+    plate = win.doc.id_of("Plate")
+    win.selection.set([plate])
+    table = win.properties_panel.shape_form.table
+    table.item(1, 0).setText("65.5")
+    assert win.doc.part(plate).shape.points[1] == (65.5, -80.0)
+    table.item(1, 1).setText("abc")
+    assert win.doc.part(plate).shape.points[1] == (65.5, -80.0)
+    assert "not a number" in win.statusBar().currentMessage()
+    table.item(3, 2).setText("2.5")
+    assert win.doc.part(plate).shape.corner_radius == (1.0, 1.0, 0.0, 2.5)
+
+
+def test_layout_settings_panel(win) -> None:  # noqa: ANN001
+    panel = win.settings_panel
+    panel.limit.setCurrentIndex(1)
+    assert isinstance(win.doc.settings.limit, PeekLimit)
+    _commit(panel.pressure, 80.0)
+    assert win.doc.settings.limit.pressure_kPa == 80.0
+    panel.limit.setCurrentIndex(0)
+    _commit(panel.kv, 2.2)
+    assert win.doc.settings.limit == FixedLimit(2.2)
+    panel.boundary.setCurrentIndex(0)
+    assert win.doc.settings.boundary.type == "open"
+    panel.boundary.setCurrentIndex(2)
+    b = win.doc.settings.boundary
+    assert b.type == "box" and b.volts is None and b.min[0] < -60 and b.max[0] > 120
+    panel.symmetry.setCurrentIndex(1)
+    assert win.doc.settings.symmetry == "axisymmetric"
+    assert win.doc.settings.boundary.min[0] == 0.0  # the box now starts at the axis
+    # parts at x < 0 are refused in axisymmetry, and the status bar says so
+    assert "r = " in (win.doc.problem() or "") and "r = " in win.problem_label.text()
+    panel.resolution.setCurrentIndex(2)
+    assert win.doc.settings.resolution == "fine"
+    while win.stack.canUndo():
+        win.stack.undo()
+    assert win.doc.to_json() == ORIGINAL
+
+
+def test_window_actions_duplicate_mirror_delete(win) -> None:  # noqa: ANN001
+    bar = win.doc.id_of("Bar")
+    win.selection.set([bar])
+    win.actions_["duplicate"].trigger()
+    copy = win.selection.ids[0]
+    assert copy != bar and win.doc.part(copy).name == "Bar 2"
+    win.actions_["mirror_v"].trigger()
+    assert win.doc.part(copy).shape.min[0] == win.doc.part(bar).shape.min[0] + 5 * \
+        win.snapper.grid_mm
+    win.selection.set([bar])
+    win.actions_["mirror_h"].trigger()
+    win.actions_["delete"].trigger()
+    assert bar not in win.doc
+    for _ in range(4):
+        win.stack.undo()
+    assert win.doc.to_json() == ORIGINAL
+
+
+def test_delete_in_outline_tool_removes_the_current_vertex(qtbot, win, monkeypatch) -> None:  # noqa: ANN001
+    from editor_window import click
+    plate = win.doc.id_of("Plate")
+    win.selection.set([plate])
+    win.actions_["tool_vertex"].trigger()
+    click(qtbot, win, (60.0, -60.0))
+    monkeypatch.setattr(QInputDialog, "getDouble", staticmethod(lambda *a, **k: (5.0, True)))
+    win.actions_["corner"].trigger()
+    assert win.doc.part(plate).shape.corner_radius == (1.0, 1.0, 5.0, 0.0)
+    win.actions_["delete"].trigger()
+    assert len(win.doc.part(plate).shape.points) == 3 and plate in win.doc
+
+
+def test_tool_shortcut_keys(qtbot, win) -> None:  # noqa: ANN001
+    win.canvas.setFocus()
+    qtbot.keyClick(win.canvas, Qt.Key.Key_C)
+    assert win.canvas.tool.name == "circle"
+    qtbot.keyClick(win.canvas, Qt.Key.Key_S)
+    assert win.canvas.tool.name == "select"
