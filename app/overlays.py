@@ -178,20 +178,33 @@ class FieldOverlays:
             self._add("field_lines", item)
 
     def _hot_spots(self, res: LiveResult) -> None:
+        """A ring at each hot spot with its field and limit beside it, on the outer side.
+
+        The text sits to the right of rings right of the hot spots' middle and to the
+        left of the others, so mirror-image corners do not stack their labels.
+        """
         r = 9.0
-        for hs in res.solution.hot_spots:
+        spots = res.solution.hot_spots
+        mid_x = float(np.median([hs.at_mm[0] for hs in spots])) if spots else 0.0
+        for hs in spots:
             ring = QGraphicsEllipseItem(QRectF(-r, -r, 2 * r, 2 * r))
             ring.setFlag(QGraphicsItem.GraphicsItemFlag.ItemIgnoresTransformations, True)
             ring.setPen(QPen(HOT_SPOT, 2.2))
             ring.setBrush(QBrush(QColor(HOT_SPOT.red(), HOT_SPOT.green(), HOT_SPOT.blue(),
                                         50)))
             ring.setPos(QPointF(*hs.at_mm))
-            ring.setToolTip(hot_spot_text(hs))
+            ring.setToolTip(f"{hs.part}: {hot_spot_text(hs)}")
+            text = QGraphicsSimpleTextItem(
+                f"{hs.field_kV_per_mm:.2f} kV/mm\nlimit {hs.limit_kV_per_mm:.2f} kV/mm", ring)
+            font = QFont()
+            font.setPointSizeF(8.0)
+            font.setBold(True)
+            text.setFont(font)
+            text.setBrush(QBrush(HOT_SPOT))
+            width = text.boundingRect().width()
+            right = hs.at_mm[0] >= mid_x
+            text.setPos(r + 3 if right else -r - 3 - width, -r - 12)
             self._add("hot_spots", ring)
-            text = _label(hot_spot_text(hs), hs.at_mm, HOT_SPOT, bold=True)
-            text.setTransform(QTransform.fromTranslate(r + 3, -r - 14))
-            self._add("hot_spots", text)
-
     def hot_spot_count(self) -> int:
         return len(self.result.solution.hot_spots) if self.result else 0
 
