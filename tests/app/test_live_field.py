@@ -162,3 +162,22 @@ def test_invalid_layout_is_reported_not_solved(qtbot, tmp_path) -> None:
     assert live.status.text().startswith("\u2716")
     assert live.status.toolTip()
     assert live.overlays.result is not None  # the last good field stays shown
+
+
+def test_drafts_while_dragging_then_full_solve_on_release(qtbot, tmp_path) -> None:
+    w, live = live_window(qtbot, tmp_path, replace(rod_over_plate(20.0), resolution="normal"))
+    assert live.overlays.result.resolution == "normal"
+    assert live.overlays.result.solution.estimated_error_percent is not None
+    w.doc.set_interacting(True)
+    move_rod(w, 16.0)
+    wait_settled(qtbot, w)
+    draft = live.overlays.result
+    assert draft.resolution == "draft"
+    assert draft.solution.estimated_error_percent is None
+    w.doc.set_interacting(False)
+    qtbot.waitUntil(lambda: live.overlays.result.resolution == "normal"
+                    and not live.runner.busy(), timeout=WAIT_MS)
+    full = live.overlays.result.solution
+    assert len(full.x_mm) > len(draft.solution.x_mm)
+    assert full.estimated_error_percent is not None
+    assert shown_peak(live) == pytest.approx(image_peak_kV_per_mm(16.0), rel=0.05)
