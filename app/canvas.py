@@ -212,7 +212,12 @@ class Canvas(QGraphicsView):
         avail_w, avail_h = max(vp.width() - 60, 50), max(vp.height() - 40, 50)
         s = min(avail_w / rect.width(), avail_h / rect.height())
         self.setTransform(QTransform.fromScale(s, -s))
-        self.centerOn(rect.center() + QPointF(-24 / (2 * s), -22 / (2 * s)))
+        centre = rect.center() + QPointF(-24 / (2 * s), -22 / (2 * s))
+        if self.doc.settings.symmetry == "axisymmetric":
+            # keep the axis near the left edge: the side r < 0 holds nothing to see
+            half_w = vp.width() / (2 * s)
+            centre.setX(max(centre.x(), 0.88 * half_w - 46 / s))
+        self.centerOn(centre)
         self._sync_scale()
 
     def _sync_scale(self) -> None:
