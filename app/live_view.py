@@ -9,10 +9,12 @@ and the newest result replaces the overlays and the results table.
 
 from __future__ import annotations
 
+import numpy as np
 from PySide6.QtCore import QObject, QPointF, QSettings
 from PySide6.QtGui import QAction
 from PySide6.QtWidgets import QLabel
 
+import solver
 from solver.layout import LayoutError
 
 from .overlays import OVERLAY_LABELS, OVERLAY_NAMES, FieldOverlays
@@ -38,6 +40,10 @@ class LiveView(QObject):
         self.dock = window.add_results_dock(self.panel, "Results")
         self.status = QLabel("no results yet")
         self.status.setObjectName("solve_state")
+        self.probe = QLabel()
+        self.probe.setObjectName("probe")
+        self.probe.setMinimumWidth(250)
+        window.statusBar().addPermanentWidget(self.probe)
         window.statusBar().addPermanentWidget(self.status)
         self.shown_revision = -1
         self.actions: dict[str, QAction] = {}
@@ -45,6 +51,7 @@ class LiveView(QObject):
         self.runner.state_changed.connect(self._on_state)
         self.runner.result_ready.connect(self._on_result)
         self.panel.hot_spot_clicked.connect(self.zoom_to)
+        window.canvas.cursor_moved.connect(self.probe_at)
         window.document_changed.connect(lambda _r: self.schedule())
         window.interaction_changed.connect(lambda _on: self.schedule())
         window.set_ready_check(self.is_ready)
@@ -78,6 +85,21 @@ class LiveView(QObject):
         if target > canvas.px_per_mm():
             canvas.zoom_by(target / canvas.px_per_mm())
         canvas.centerOn(QPointF(x_mm, y_mm))
+
+    def probe_at(self, x_mm: float, y_mm: float) -> None:
+        """Show the potential (kV) and field magnitude (kV/mm) of the newest result at
+        (x, y) mm; inside a conductor, its potential alone."""
+        res = self.runner.latest
+        if res is None:
+            self.probe.setText("")
+            return
+        sol = res.solution
+        if not (sol.x_mm[0] <= x_mm <= sol.x_mm[-1] and sol.y_mm[0] <= y_mm <= sol.y_mm[-1]):
+            self.probe.setText("outside the solved region")
+            return
+        phi, e = solver.sample(sol, np.array([[x_mm, y_mm]]))
+        self.probe.setText(f"\u03c6 = {phi[0] / 1000:.4g} kV   "
+                           f"|E| = {float(np.hypot(*e[0])):.3g} kV/mm")
 
     def _on_result(self, res: LiveResult) -> None:
         self.shown_revision = res.revision

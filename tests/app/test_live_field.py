@@ -17,9 +17,11 @@ from __future__ import annotations
 import math
 from dataclasses import replace
 
+import numpy as np
 import pytest
 from PySide6.QtCore import QSettings
 
+import solver
 from app.live_view import attach_live_view
 from app.main_window import MainWindow
 from solver.layout import Circle, FixedLimit, Layout, Part, Rect
@@ -181,3 +183,21 @@ def test_drafts_while_dragging_then_full_solve_on_release(qtbot, tmp_path) -> No
     assert len(full.x_mm) > len(draft.solution.x_mm)
     assert full.estimated_error_percent is not None
     assert shown_peak(live) == pytest.approx(image_peak_kV_per_mm(16.0), rel=0.05)
+
+
+def test_cursor_readout_matches_the_solver_and_the_image_field(qtbot, tmp_path) -> None:
+    w, live = live_window(qtbot, tmp_path, rod_over_plate(20.0))
+    x, y = 0.0, 10.0  # on the axis, midway between the rod and the plate
+    w.canvas.cursor_moved.emit(x, y)
+    text = live.probe.text()
+    phi_shown = float(text.split("=")[1].split()[0])
+    e_shown = float(text.split("=")[2].split()[0])
+    phi, e = solver.sample(live.runner.latest.solution, np.array([[x, y]]))
+    assert phi_shown == pytest.approx(phi[0] / 1000, rel=1e-3)
+    assert e_shown == pytest.approx(float(np.hypot(*e[0])), rel=2e-3)
+    # method of images on the axis: E(y) = lambda/(2 pi eps) * (1/(s - y) + 1/(s + y))
+    a, h = ROD_R, 20.0
+    s = math.sqrt(h * h - a * a)
+    per_lambda = ROD_V / 1000.0 / math.log((h + s) / a)
+    assert e_shown == pytest.approx(per_lambda * (1 / (s - y) + 1 / (s + y)), rel=0.05)
+    assert "kV" in text and "kV/mm" in text
