@@ -38,6 +38,8 @@ PART_STYLES: dict[str, PartStyle] = {
 
 EQUIPOTENTIAL_COLOUR = "#2d3a4a"
 FIELD_LINE_COLOUR = "#96462a"
+FIELD_LINE_STYLE = (0, (6.0, 2.5))
+"""Dashed, so field lines and equipotentials differ in a grey print as well as in hue."""
 HOT_SPOT_COLOUR = palette.HOT_SPOT.name()
 PEAK_COLOUR = "#111111"
 MAP_OPACITY = 0.45

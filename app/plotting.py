@@ -27,7 +27,13 @@ from solver.solution import Solution
 
 from .plot_markers import draw_hot_spots
 from .plot_parts import draw_parts
-from .plot_style import EQUIPOTENTIAL_COLOUR, FIELD_CMAP, FIELD_LINE_COLOUR, POTENTIAL_CMAP
+from .plot_style import (
+    EQUIPOTENTIAL_COLOUR,
+    FIELD_CMAP,
+    FIELD_LINE_COLOUR,
+    FIELD_LINE_STYLE,
+    POTENTIAL_CMAP,
+)
 
 MAX_LEVELS = 200
 """Most equipotential levels drawn; a finer step is coarsened (and said so)."""
@@ -179,7 +185,8 @@ def draw_field_lines(ax: Axes, solution: Solution, overlays: ReportOverlays) -> 
     for line in lines:
         if len(line) < 2:
             continue
-        ax.plot(line[:, 0], line[:, 1], color=FIELD_LINE_COLOUR, lw=0.8, zorder=3)
+        ax.plot(line[:, 0], line[:, 1], color=FIELD_LINE_COLOUR, lw=0.8, ls=FIELD_LINE_STYLE,
+                zorder=3)
         _field_arrow(ax, line, ex, ey)
         drawn += 1
     return drawn

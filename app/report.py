@@ -32,12 +32,13 @@ from .plot_markers import peak_location
 from .plot_style import (
     EQUIPOTENTIAL_COLOUR,
     FIELD_LINE_COLOUR,
+    FIELD_LINE_STYLE,
     HOT_SPOT_COLOUR,
     PART_STYLES,
     PEAK_COLOUR,
 )
 from .plotting import ReportOverlays, draw_solution
-from .report_numbers import fmt_num, fmt_point
+from .report_numbers import fitted_title, fmt_num, fmt_point
 from .report_tables import (
     describe_boundary,
     describe_limit,
@@ -102,11 +103,7 @@ def _axes_aspect(fig: Figure) -> float:
 
 def _header(fig: Figure, solution: Solution, source_name: str, when: datetime) -> None:
     title = solution.layout.title or source_name or "Stresslens layout"
-    size = min(15.0, 15.0 * TITLE_CHARS_AT_15PT / max(len(title), 1))
-    if size < 9.0:
-        size = 9.0
-        keep = int(TITLE_CHARS_AT_15PT * 15.0 / 9.0) - 1
-        title = title[:keep].rstrip() + "…"
+    title, size = fitted_title(title, TITLE_CHARS_AT_15PT)
     fig.text(0.06, 0.955, title, fontsize=size, weight="bold", va="top")
     sub = " · ".join(s for s in (source_name, f"{solution.layout.symmetry} cross-section",
                                  f"solved {when:%Y-%m-%d %H:%M} UTC") if s)
@@ -172,7 +169,7 @@ def _legend(fig: Figure, solution: Solution, overlays: ReportOverlays, top: floa
         handles.append(Line2D([], [], color=EQUIPOTENTIAL_COLOUR, lw=0.8,
                               label="equipotential (kV)"))
     if overlays.field_lines:
-        handles.append(Line2D([], [], color=FIELD_LINE_COLOUR, lw=0.8,
+        handles.append(Line2D([], [], color=FIELD_LINE_COLOUR, lw=0.8, ls=FIELD_LINE_STYLE,
                               label="field line (arrow along E)"))
     if overlays.hot_spots:
         handles.append(Line2D([], [], ls="none", marker="^", ms=8, mfc=HOT_SPOT_COLOUR,

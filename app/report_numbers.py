@@ -1,4 +1,4 @@
-"""Numbers as reports print them: significant figures, points in mm, SI prefixes."""
+"""Numbers and titles as reports print them: significant figures, points, SI prefixes."""
 
 from __future__ import annotations
 
@@ -44,3 +44,16 @@ def fmt_si(v: float | None, unit: str) -> str:
         if abs(v) >= s * 0.9995:
             scale, pre = s, p
     return f"{v / scale:.4g} {pre}{unit}"
+
+
+def fitted_title(title: str, chars_at_15pt: int) -> tuple[str, float]:
+    """(text, font size in pt) so a bold title fits a line of ``chars_at_15pt`` characters.
+
+    The size shrinks in proportion to the length, down to 9 pt; a longer title is cut
+    with an ellipsis.
+    """
+    size = min(15.0, 15.0 * chars_at_15pt / max(len(title), 1))
+    if size >= 9.0:
+        return title, size
+    keep = int(chars_at_15pt * 15.0 / 9.0) - 1
+    return title[:keep].rstrip() + "…", 9.0

@@ -22,12 +22,15 @@ from solver.layout import FixedLimit, Layout
 from solver.solution import PartResult, Solution
 
 from .caution import CAUTION
-from .report_numbers import fmt_num, fmt_point, fmt_si, point_decimals
+from .report_numbers import fitted_title, fmt_num, fmt_point, fmt_si, point_decimals
 
 A4_PORTRAIT_IN = (8.27, 11.69)
 MAX_HOT_SPOT_ROWS = 18
 MAX_PART_ROWS = 24
 MAX_MATRIX_CONDUCTORS = 6
+CHARGE_ROUND_OFF = 1e-9
+TITLE_CHARS_AT_15PT = 58
+"""Characters of a bold 15 pt title across the portrait page (measured, DejaVu Sans)."""
 
 
 def charge_unit(layout: Layout) -> str:
@@ -108,10 +111,17 @@ def hot_spot_rows(solution: Solution) -> tuple[list[list[str]], int]:
 
 
 def charge_rows(solution: Solution) -> list[list[str]]:
-    """Charge on each conductor, with its SI-prefixed unit."""
+    """Charge on each conductor, with its SI-prefixed unit.
+
+    A charge below :data:`CHARGE_ROUND_OFF` of the largest is round-off of a zero (a
+    floating part with no net charge, say) and is printed as 0.
+    """
     unit = charge_unit(solution.layout)
-    return [[p.name, fmt_si(p.charge, unit)] for p in solution.parts
-            if p.kind != "dielectric"]
+    conductors = [p for p in solution.parts if p.kind != "dielectric"]
+    largest = max((abs(p.charge or 0.0) for p in conductors), default=0.0)
+    return [[p.name, fmt_si(0.0 if p.charge is not None and abs(p.charge) <
+                            CHARGE_ROUND_OFF * largest else p.charge, unit)]
+            for p in conductors]
 
 
 def capacitance_rows(solution: Solution) -> tuple[list[str], list[list[str]]]:
@@ -223,29 +233,31 @@ def render_tables_page(solution: Solution, source_name: str, when: datetime) -> 
     """Page 2: parts, hot spots, charges and capacitances, settings, solver statistics."""
     fig = Figure(figsize=A4_PORTRAIT_IN)
     cur = _Cursor(fig)
-    title = solution.layout.title or source_name
-    fig.text(cur.left, cur.y, f"{title}: numbers", fontsize=13, weight="bold", va="top")
+    title, size = fitted_title(f"{solution.layout.title or source_name}: numbers",
+                               TITLE_CHARS_AT_15PT)
+    fig.text(cur.left, cur.y, title, fontsize=size, weight="bold", va="top")
     cur.y -= cur._dy(18)
     cur.line(f"{source_name} · {solution.layout.symmetry} · {when:%Y-%m-%d %H:%M} UTC",
              colour="#555555")
     cur.heading("Parts (field kV/mm, potential kV, coordinates mm)")
     cur.table(["part", "kind", "potential kV", "peak field kV/mm", "peak at (mm)",
                "limit kV/mm", "margin %"], part_rows(solution),
-              [1.3, 0.9, 1.0, 1.6, 2.5, 0.95, 0.85],
+              [1.3, 0.85, 1.15, 1.65, 1.75, 1.0, 0.9],
               [False, False, True, True, False, True, True])
     if len(solution.parts) > MAX_PART_ROWS:
         cur.line(f"… and {len(solution.parts) - MAX_PART_ROWS} more parts (all are in "
                  f"'stresslens solve --json').", size=8)
-    cur.line("Dielectrics: peak field inside the body; 'surface' is the gas-side field on "
-             "the outline, the one the limit applies to.", size=7.5, colour="#555555")
+    if any(p.kind == "dielectric" for p in solution.parts):
+        cur.line("Dielectrics: peak field inside the body; 'surface' is the gas-side field "
+                 "on the outline, the one the limit applies to.", size=7.5, colour="#555555")
     _hot_spot_section(cur, solution)
     _charge_section(cur, solution)
     cur.heading("Settings")
     cur.table(["setting", "value"], settings_rows(solution), [1.3, 6.0], [False, False],
               span=0.85)
     cur.heading("Solver statistics")
-    cur.table(["quantity", "value"], statistics_rows(solution), [1.8, 2.5], [False, False],
-              span=0.5)
+    cur.table(["quantity", "value"], statistics_rows(solution), [2.2, 2.3], [False, False],
+              span=0.55)
     for note in solution.notes:
         cur.line(f"Note: {note}", size=8)
     _caution_block(fig, cur.left, cur.right)

@@ -30,8 +30,8 @@ from app import cli
 from app.caution import CAUTION
 from app.plotting import ReportOverlays, equipotential_levels, nice_step
 from app.report import FIGURE_DPI, ReportError, render_figure, write_report
-from app.report_numbers import fmt_num, fmt_si
-from app.report_tables import part_rows, summary_rows, view_decimals
+from app.report_numbers import fmt_num
+from app.report_tables import charge_rows, part_rows, summary_rows, view_decimals
 
 WHEN = datetime(2026, 3, 14, 9, 30, tzinfo=timezone.utc)
 MM_PER_INCH = 25.4
@@ -90,9 +90,15 @@ def test_pdf_has_figure_and_tables_pages_with_the_solved_numbers(tmp_path: Path)
         assert printed in page2
         assert float(printed) == pytest.approx(p.peak_field_kV_per_mm, rel=5e-4)
         assert f"{p.margin_percent:+.1f}" in page2
-        if p.charge is not None:
-            assert fmt_si(p.charge, "C/m") in page2
     assert f"{sol.unknowns:,}" in page2
+    largest = max(abs(p.charge or 0.0) for p in sol.parts)
+    prefix = {"f": 1e-15, "p": 1e-12, "n": 1e-9, "µ": 1e-6, "m": 1e-3, "": 1.0}
+    for name, text in charge_rows(sol):
+        assert f"{name} {text}" in page2
+        value, unit = text.split(" ")
+        printed = float(value) * prefix[unit.removesuffix("C/m").removesuffix("C")]
+        charge = sol.part(name).charge
+        assert printed == pytest.approx(charge, rel=5e-4, abs=1e-9 * largest), name
     assert f"{len(sol.hot_spots)} hot spot" in page1 or "below the limit" in page1
 
 
@@ -234,3 +240,9 @@ def test_cli_report_refuses_bad_input(tmp_path: Path,
     assert cli.main(["report", str(bad), "-o", str(tmp_path / "r.pdf")]) == 2
     assert "'A' and 'B'" in capsys.readouterr().err
     assert not (tmp_path / "r.pdf").exists()
+
+
+def test_readme_carries_the_caution_word_for_word() -> None:
+    # the product's safety rule: README, About box and every report say the same thing
+    readme = (Path(__file__).resolve().parents[2] / "README.md").read_text(encoding="utf-8")
+    assert squash(CAUTION) in squash(readme.replace("*", ""))
