@@ -14,7 +14,7 @@ about the cursor; the middle button, or space with the left button, pans.
 from __future__ import annotations
 
 from PySide6.QtCore import QPointF, QRectF, Qt, Signal
-from PySide6.QtGui import QKeyEvent, QMouseEvent, QPainter, QTransform, QWheelEvent
+from PySide6.QtGui import QKeyEvent, QMouseEvent, QPainter, QPixmap, QTransform, QWheelEvent
 from PySide6.QtWidgets import QGraphicsItemGroup, QGraphicsScene, QGraphicsView, QWidget
 
 from . import shape_edit as se
@@ -66,6 +66,7 @@ class Canvas(QGraphicsView):
         self._pan_from: QPointF | None = None
         self._space = False
         self._left_down = False
+        self._ruler_cache: tuple[tuple, QPixmap] | None = None
         self._setup_view()
         self._connect_model()
         self._rebuild()
@@ -83,6 +84,7 @@ class Canvas(QGraphicsView):
         self.setRenderHints(QPainter.RenderHint.Antialiasing
                             | QPainter.RenderHint.TextAntialiasing)
         self.setViewportUpdateMode(QGraphicsView.ViewportUpdateMode.FullViewportUpdate)
+        self.setCacheMode(QGraphicsView.CacheModeFlag.CacheBackground)
         self.setTransformationAnchor(QGraphicsView.ViewportAnchor.NoAnchor)
         self.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
         self.setVerticalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
@@ -97,7 +99,7 @@ class Canvas(QGraphicsView):
         self.doc.part_added.connect(self._on_part_added)
         self.doc.part_removed.connect(self._on_part_removed)
         self.doc.part_changed.connect(self._on_part_changed)
-        self.doc.settings_changed.connect(lambda: self.viewport().update())
+        self.doc.settings_changed.connect(self._on_settings_changed)
         self.doc.reset.connect(self._rebuild)
         self.selection.changed.connect(self._on_selection_changed)
 
@@ -150,6 +152,10 @@ class Canvas(QGraphicsView):
         else:
             item.set_part(new, self._max_abs_volts())
         self._on_preview_changed()
+
+    def _on_settings_changed(self) -> None:
+        self.resetCachedContent()  # the background shows the axis of symmetry
+        self.viewport().update()
 
     def _on_selection_changed(self) -> None:
         vmax = self._max_abs_volts()
@@ -222,6 +228,7 @@ class Canvas(QGraphicsView):
 
     def _sync_scale(self) -> None:
         ppm = self.px_per_mm()
+        self.resetCachedContent()
         for item in self.items_by_id.values():
             item.place_label(ppm)
         self.ctx.tol_mm = PICK_PX / ppm
@@ -242,11 +249,23 @@ class Canvas(QGraphicsView):
     def drawForeground(self, painter: QPainter, rect: QRectF) -> None:
         painter.save()
         painter.resetTransform()
-        vp = self.viewport()
-        names = ("r", "z") if self.doc.settings.symmetry == "axisymmetric" else ("x", "y")
-        draw_rulers(painter, self.viewportTransform(), vp.width(), vp.height(),
-                    self.px_per_mm(), names)
+        painter.drawPixmap(0, 0, self._rulers())
         painter.restore()
+
+    def _rulers(self) -> QPixmap:
+        """The rulers as a transparent pixmap, redrawn only when the view changes."""
+        vp = self.viewport()
+        t = self.viewportTransform()
+        names = ("r", "z") if self.doc.settings.symmetry == "axisymmetric" else ("x", "y")
+        key = (vp.width(), vp.height(), t.m11(), t.m22(), t.dx(), t.dy(), names)
+        if self._ruler_cache is None or self._ruler_cache[0] != key:
+            pm = QPixmap(vp.size())
+            pm.fill(Qt.GlobalColor.transparent)
+            p = QPainter(pm)
+            draw_rulers(p, t, vp.width(), vp.height(), self.px_per_mm(), names)
+            p.end()
+            self._ruler_cache = (key, pm)
+        return self._ruler_cache[1]
 
     # ------------------------------------------------------------------ events
 

@@ -32,6 +32,7 @@ def grid_steps(px_per_mm: float) -> tuple[float, float]:
 
 def draw_grid(painter: QPainter, rect: QRectF, px_per_mm: float, axisymmetric: bool) -> None:
     """Fill ``rect`` (scene mm) with the canvas colour, grid lines and the axes."""
+    painter.setRenderHint(QPainter.RenderHint.Antialiasing, False)  # crisp and fast
     painter.fillRect(rect, palette.CANVAS)
     minor, major = grid_steps(px_per_mm)
     for step, colour in ((minor, palette.GRID_MINOR), (major, palette.GRID_MAJOR)):
@@ -76,6 +77,7 @@ def draw_rulers(painter: QPainter, to_view: QTransform, width: int, height: int,
     font = QFont()
     font.setPointSizeF(7.5)
     painter.setFont(font)
+    painter.setRenderHint(QPainter.RenderHint.Antialiasing, False)
     painter.fillRect(QRectF(0, height - RULER_PX, width, RULER_PX), palette.RULER_BG)
     painter.fillRect(QRectF(0, 0, RULER_PX + 24, height - RULER_PX), palette.RULER_BG)
     painter.setPen(QPen(palette.RULER_LINE, 1.0))

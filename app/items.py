@@ -91,6 +91,8 @@ class PartItem(QGraphicsPathItem):
         self.label = PartLabelItem(self)
         self._inside = QPointF()
         self._px_per_mm = px_per_mm
+        # parts that do not change during a drag are blitted, not re-rasterised
+        self.setCacheMode(QGraphicsItem.CacheMode.DeviceCoordinateCache)
         self.setAcceptedMouseButtons(Qt.MouseButton.NoButton)
 
     def set_part(self, part: Part, max_abs_volts: float) -> None:

@@ -15,7 +15,7 @@ from __future__ import annotations
 from collections.abc import Callable
 from pathlib import Path
 
-from PySide6.QtCore import QSettings, Qt, Signal
+from PySide6.QtCore import QSettings, Qt, QTimer, Signal
 from PySide6.QtGui import QCloseEvent, QUndoStack
 from PySide6.QtWidgets import QDockWidget, QLabel, QMainWindow, QScrollArea, QWidget
 
@@ -58,6 +58,10 @@ class MainWindow(QMainWindow):
         self.setCentralWidget(self.canvas)
         self.files = FileActions(self, self.doc, self.settings)
         self._ready_check: Callable[[], bool] = lambda: True
+        self._problem_timer = QTimer(self)
+        self._problem_timer.setSingleShot(True)
+        self._problem_timer.setInterval(60)
+        self._problem_timer.timeout.connect(self._update_problem)
         self._build_docks()
         self._build_status_bar()
         self.actions_ = build_actions(self)
@@ -120,7 +124,7 @@ class MainWindow(QMainWindow):
     # ------------------------------------------------------------------ behaviour
 
     def _on_doc_changed(self, revision: int) -> None:
-        self._update_problem()
+        self._problem_timer.start()  # validation coalesced: at most one per event-loop pass
         self._update_title()
         self.document_changed.emit(revision)
 

@@ -98,7 +98,8 @@ def test_overlapping_parts_can_be_opened_for_repair(qtbot, tmp_path, dialogs) ->
     answers.append(SB.Open)
     assert w.files.open(str(f))
     assert "Bar" in seen[-1][2] and "Ball" in seen[-1][2]
-    assert w.doc.problem() is not None and "Ball" in w.problem_label.text()
+    assert w.doc.problem() is not None
+    qtbot.waitUntil(lambda: "Ball" in w.problem_label.text(), timeout=2000)
 
 
 def test_unsaved_changes_prompt(qtbot, tmp_path, monkeypatch, dialogs) -> None:  # noqa: ANN001

@@ -66,7 +66,7 @@ def test_vertex_table_edit_and_bad_number(win) -> None:  # noqa: ANN001
     assert win.doc.part(plate).shape.corner_radius == (1.0, 1.0, 0.0, 2.5)
 
 
-def test_layout_settings_panel(win) -> None:  # noqa: ANN001
+def test_layout_settings_panel(qtbot, win) -> None:  # noqa: ANN001
     panel = win.settings_panel
     panel.limit.setCurrentIndex(1)
     assert isinstance(win.doc.settings.limit, PeekLimit)
@@ -84,7 +84,8 @@ def test_layout_settings_panel(win) -> None:  # noqa: ANN001
     assert win.doc.settings.symmetry == "axisymmetric"
     assert win.doc.settings.boundary.min[0] == 0.0  # the box now starts at the axis
     # parts at x < 0 are refused in axisymmetry, and the status bar says so
-    assert "r = " in (win.doc.problem() or "") and "r = " in win.problem_label.text()
+    assert "r = " in (win.doc.problem() or "")
+    qtbot.waitUntil(lambda: "r = " in win.problem_label.text(), timeout=2000)
     panel.resolution.setCurrentIndex(2)
     assert win.doc.settings.resolution == "fine"
     while win.stack.canUndo():
