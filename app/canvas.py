@@ -20,6 +20,7 @@ from PySide6.QtWidgets import QGraphicsItemGroup, QGraphicsScene, QGraphicsView,
 from . import shape_edit as se
 from .canvas_grid import draw_grid, draw_rulers, grid_steps
 from .document import Document
+from .hit_test import part_at
 from .items import PartItem
 from .preview_item import PreviewItem
 from .selection import Selection
@@ -315,7 +316,11 @@ class Canvas(QGraphicsView):
 
     def mouseDoubleClickEvent(self, event: QMouseEvent) -> None:
         if event.button() == Qt.MouseButton.LeftButton:
-            self.tool.double_click(self.scene_point(event.position()))
+            pt = self.scene_point(event.position())
+            if self.tool.name == "select" and part_at(self.doc, pt, self.ctx.tol_mm) is not None:
+                self.set_tool("vertex")  # double-click a part to edit its outline
+            else:
+                self.tool.double_click(pt)
         event.accept()
 
     def keyPressEvent(self, event: QKeyEvent) -> None:

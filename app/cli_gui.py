@@ -101,6 +101,7 @@ def build_window(layout_path: str | None):  # noqa: ANN201 - MainWindow
 def _interactive(layout_path: str | None) -> int:
     app = make_app()
     window = build_window(layout_path)
+    window.restore_window_state()
     window.show()
     return int(app.exec())
 

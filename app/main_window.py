@@ -166,8 +166,18 @@ class MainWindow(QMainWindow):
 
     # ------------------------------------------------------------------ closing
 
+    def restore_window_state(self) -> None:
+        """Put docks, tool bars and the window's size back as the user last left them."""
+        geometry = self.settings.value("window/geometry")
+        state = self.settings.value("window/state")
+        if geometry is not None:
+            self.restoreGeometry(geometry)
+        if state is not None:
+            self.restoreState(state)
+
     def closeEvent(self, event: QCloseEvent) -> None:
         if self.files.confirm_discard():
+            self.settings.setValue("window/geometry", self.saveGeometry())
             self.settings.setValue("window/state", self.saveState())
             event.accept()
         else:

@@ -151,3 +151,11 @@ def test_cursor_position_in_status_bar(qtbot, empty) -> None:  # noqa: ANN001
 def every_shape_layout_json() -> dict:
     from solver.layout import layout_to_json
     return layout_to_json(every_shape_layout())
+
+
+def test_double_click_a_part_edits_its_outline(qtbot, tmp_path) -> None:  # noqa: ANN001
+    w = open_window(qtbot, tmp_path, every_shape_layout())
+    click(qtbot, w, (-30.0, 0.0))
+    qtbot.mouseDClick(w.canvas.viewport(), Qt.MouseButton.LeftButton, pos=px(w, -30.0, 0.0))
+    assert w.canvas.tool.name == "vertex" and w.actions_["tool_vertex"].isChecked()
+    assert w.selection.ids == [w.doc.id_of("Bar")]
