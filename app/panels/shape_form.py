@@ -27,15 +27,17 @@ from .fields import NumberField
 Commit = Callable[[Shape], None]
 
 # (label, unit, getter, setter) for the scalar fields of each shape type
+_CENTRE: list[tuple[str, str, Callable, Callable]] = [
+    ("Centre x", "mm", lambda s: s.center[0], lambda s, v: replace(s, center=(v, s.center[1]))),
+    ("Centre y", "mm", lambda s: s.center[1], lambda s, v: replace(s, center=(s.center[0], v))),
+]
 _FIELDS: dict[str, list[tuple[str, str, Callable, Callable]]] = {
     "circle": [
-        ("Centre x", "mm", lambda s: s.center[0], lambda s, v: replace(s, center=(v, s.center[1]))),
-        ("Centre y", "mm", lambda s: s.center[1], lambda s, v: replace(s, center=(s.center[0], v))),
+        *_CENTRE,
         ("Radius", "mm", lambda s: s.radius, lambda s, v: replace(s, radius=v)),
     ],
     "ellipse": [
-        ("Centre x", "mm", lambda s: s.center[0], lambda s, v: replace(s, center=(v, s.center[1]))),
-        ("Centre y", "mm", lambda s: s.center[1], lambda s, v: replace(s, center=(s.center[0], v))),
+        *_CENTRE,
         ("Semi-axis a", "mm", lambda s: s.radii[0], lambda s, v: replace(s, radii=(v, s.radii[1]))),
         ("Semi-axis b", "mm", lambda s: s.radii[1], lambda s, v: replace(s, radii=(s.radii[0], v))),
         ("Angle of a", "\u00b0", lambda s: s.angle_deg, lambda s, v: replace(s, angle_deg=v)),
