@@ -74,10 +74,6 @@ def test_coax_capacitance(coax_solution: tuple[str, Solution]) -> None:
     assert rel(sol.part("inner").charge, cap * U) < CAP_TOL[res]
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "solver.post.trace_peak: the parabola through the largest sample and its neighbours "
-    "overshoots on a flat, slightly noisy trace (samples unevenly spaced), by up to the "
-    "5 % cap; coax normal reports +1.0 % though every sample is within 0.3 %"))
 def test_coax_reported_peak(coax_solution: tuple[str, Solution]) -> None:
     res, sol = coax_solution
     e_max, _ = coax_exact()
