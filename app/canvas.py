@@ -203,6 +203,13 @@ class Canvas(QGraphicsView):
         c = self.mapToScene(self.viewport().rect().center())
         self.centerOn(c.x() - dx_mm, c.y() - dy_mm)
 
+    def pan_pixels(self, dx: int, dy: int) -> None:
+        """Move the content by (dx, dy) screen pixels (exactly, through the scroll bars)."""
+        h, v = self.horizontalScrollBar(), self.verticalScrollBar()
+        h.setValue(h.value() - dx)
+        v.setValue(v.value() - dy)
+        self.view_changed.emit()
+
     def zoom_to_fit(self) -> None:
         """Show every part with a margin (an area 200 mm wide about the origin when empty)."""
         boxes = [se.bounds(p.shape) for _, p in self.doc.parts()]
@@ -295,11 +302,9 @@ class Canvas(QGraphicsView):
         pt = self.scene_point(event.position())
         self.cursor_moved.emit(*pt)
         if self._pan_from is not None:
-            d = event.position() - self._pan_from
-            self._pan_from = event.position()
-            s = self.px_per_mm()
-            self.translate_scene(d.x() / s, -d.y() / s)
-            self.view_changed.emit()
+            d = (event.position() - self._pan_from).toPoint()
+            self._pan_from += QPointF(d)
+            self.pan_pixels(d.x(), d.y())
         else:
             self.tool.move(pt, self._left_down)
         event.accept()

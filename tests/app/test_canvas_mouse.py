@@ -159,3 +159,36 @@ def test_double_click_a_part_edits_its_outline(qtbot, tmp_path) -> None:  # noqa
     qtbot.mouseDClick(w.canvas.viewport(), Qt.MouseButton.LeftButton, pos=px(w, -30.0, 0.0))
     assert w.canvas.tool.name == "vertex" and w.actions_["tool_vertex"].isChecked()
     assert w.selection.ids == [w.doc.id_of("Bar")]
+
+
+def test_middle_button_and_space_drag_pan_the_view(qtbot, empty) -> None:  # noqa: ANN001
+    vp = empty.canvas.viewport()
+    a, b = px(empty, 0.0, 0.0), px(empty, 20.0, 10.0)
+    s0 = empty.canvas.px_per_mm()
+    qtbot.mousePress(vp, Qt.MouseButton.MiddleButton, pos=a)
+    try:
+        qtbot.mouseMove(vp, b)
+    finally:
+        qtbot.mouseRelease(vp, Qt.MouseButton.MiddleButton, pos=b)
+    # the scene point that was under a is now under b: origin moved with the mouse
+    assert empty.canvas.mapFromScene(0.0, 0.0) == b
+    assert empty.canvas.px_per_mm() == s0 and len(empty.doc) == 0
+    qtbot.keyPress(empty.canvas, Qt.Key.Key_Space)
+    try:
+        mouse_drag(qtbot, empty, (20.0, 10.0), (0.0, 0.0))
+    finally:
+        qtbot.keyRelease(empty.canvas, Qt.Key.Key_Space)
+    assert empty.canvas.mapFromScene(0.0, 0.0) == a
+    assert len(empty.doc) == 0 and empty.selection.ids == []
+
+
+def test_snapping_can_be_switched_off(qtbot, empty) -> None:  # noqa: ANN001
+    empty.actions_["snap"].trigger()
+    assert not empty.snapper.enabled
+    empty.actions_["tool_circle"].trigger()
+    c = empty.canvas
+    # a point between grid nodes stays where it is (to the pixel)
+    target = (3.3 * _grid(empty), 1.7 * _grid(empty))
+    mouse_drag(qtbot, empty, target, (target[0] + 20.0, target[1]))
+    s = _last_shape(empty)
+    assert s["center"] == pytest.approx(list(target), abs=1.0 / c.px_per_mm())
