@@ -47,7 +47,9 @@ class ReportOverlays:
     """What to draw over the cross-section (the same switches as the canvas).
 
     ``equipotential_step_V`` is the spacing of equipotential levels in volts; ``None``
-    picks a round step giving about ten levels across the potential range.  When both
+    picks a round step giving about ten levels across the potential range.
+    ``equipotential_levels_V``, when given, are the levels themselves (V), so an export
+    from the editor draws exactly the lines the canvas shows.  When both
     colour maps are on, the field-strength map is drawn (it is the more specific view)
     and the potential is still readable from the labelled equipotentials.
     """
@@ -58,6 +60,7 @@ class ReportOverlays:
     field_strength_map: bool = False
     hot_spots: bool = True
     equipotential_step_V: float | None = None
+    equipotential_levels_V: tuple[float, ...] | None = None
     n_field_lines: int = 40
 
 
@@ -146,20 +149,30 @@ def draw_colour_map(ax: Axes, solution: Solution,
 
 
 def draw_equipotentials(ax: Axes, solution: Solution, overlays: ReportOverlays,
-                        fontsize: float = 7.0) -> bool:
-    """Equipotential lines labelled in kV; returns True if the step was coarsened."""
+                        fontsize: float = 7.0) -> str | None:
+    """Equipotential lines labelled in kV; returns a note if fewer were drawn than asked."""
     if not overlays.equipotentials:
-        return False
-    levels, coarsened = equipotential_levels(solution, overlays.equipotential_step_V)
+        return None
+    note = None
+    if overlays.equipotential_levels_V is not None:
+        levels = np.unique(np.asarray(overlays.equipotential_levels_V, float))
+        if len(levels) > MAX_LEVELS:
+            note = f"only the first {MAX_LEVELS} of {len(levels)} equipotentials drawn"
+            levels = levels[:MAX_LEVELS]
+    else:
+        levels, coarsened = equipotential_levels(solution, overlays.equipotential_step_V)
+        if coarsened:
+            note = (f"equipotential step too fine for a print; drawn at "
+                    f"{nice_step(float(np.ptp(solution.phi))) / 1e3:g} kV")
     if len(levels) == 0:
-        return coarsened
+        return note
     x0, y0, x1, y1 = solution.view_box_mm
     sx, sy = _view_slice(solution.x_mm, x0, x1), _view_slice(solution.y_mm, y0, y1)
     cs = ax.contour(solution.x_mm[sx], solution.y_mm[sy], solution.phi[sy, sx] / 1e3,
                     levels=levels / 1e3, colors=EQUIPOTENTIAL_COLOUR, linewidths=0.7,
                     negative_linestyles="solid", zorder=2)
     ax.clabel(cs, inline=True, fontsize=fontsize, fmt=_kV_label, inline_spacing=2)
-    return coarsened
+    return note
 
 
 def _kV_label(v: float) -> str:
@@ -261,11 +274,9 @@ def draw_solution(ax: Axes, solution: Solution, overlays: ReportOverlays,
     equipotential step).
     """
     solution = replace(solution, view_box_mm=fitted_view(solution, aspect))
-    notes: list[str] = []
     mappable = draw_colour_map(ax, solution, overlays)
-    if draw_equipotentials(ax, solution, overlays):
-        notes.append(f"equipotential step too fine for a print; drawn at "
-                     f"{nice_step(float(np.ptp(solution.phi))) / 1e3:g} kV")
+    note = draw_equipotentials(ax, solution, overlays)
+    notes = [] if note is None else [note]
     draw_field_lines(ax, solution, overlays)
     draw_parts(ax, solution)
     draw_axis_of_symmetry(ax, solution)
