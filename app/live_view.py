@@ -17,7 +17,7 @@ from PySide6.QtWidgets import QLabel
 import solver
 from solver.layout import LayoutError
 
-from .overlays import OVERLAY_LABELS, OVERLAY_NAMES, FieldOverlays
+from .overlays import DEFAULT_OFF, OVERLAY_LABELS, OVERLAY_NAMES, FieldOverlays
 from .panels.results_panel import ResultsPanel
 from .solve_runner import LiveResult, SolveRunner
 
@@ -122,7 +122,8 @@ class LiveView(QObject):
         for name in OVERLAY_NAMES:
             act = QAction(OVERLAY_LABELS[name], self.window)
             act.setCheckable(True)
-            on = str(self.settings.value(f"overlays/{name}", "true")).lower() == "true"
+            default = "false" if name in DEFAULT_OFF else "true"
+            on = str(self.settings.value(f"overlays/{name}", default)).lower() == "true"
             act.setChecked(on)
             self.overlays.set_visible(name, on)
             act.toggled.connect(lambda v, n=name: self._toggle(n, v))

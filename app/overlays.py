@@ -28,8 +28,11 @@ from PySide6.QtWidgets import (
 from .palette import HOT_SPOT
 from .solve_runner import LiveResult
 
-OVERLAY_NAMES = ("potential_map", "equipotentials", "field_lines", "hot_spots")
+OVERLAY_NAMES = ("potential_map", "field_map", "equipotentials", "field_lines", "hot_spots")
+UNDERLAYS = ("potential_map", "field_map")
+DEFAULT_OFF = ("field_map",)
 OVERLAY_LABELS = {"potential_map": "Potential colour map",
+                  "field_map": "Field-strength map (brightest at the limit)",
                   "equipotentials": "Equipotential lines",
                   "field_lines": "Field lines",
                   "hot_spots": "Hot spots"}
@@ -39,32 +42,32 @@ FIELD_LINE = QColor(150, 70, 40, 170)
 LABEL_BG = QColor(251, 250, 247, 220)
 
 
-def colour_table(n: int = 256) -> np.ndarray:
-    """(n, 4) uint8 RGBA lookup table of the potential colour map."""
+def colour_table(n: int = 256, name: str = "cividis") -> np.ndarray:
+    """(n, 4) uint8 RGBA lookup table of a colour map (cividis: potential; magma: |E|)."""
     from matplotlib import colormaps
 
-    rgba = colormaps["cividis"](np.linspace(0.0, 1.0, n))
+    rgba = colormaps[name](np.linspace(0.0, 1.0, n))
     out = (rgba * 255).round().astype(np.uint8)
     out[:, 3] = MAP_ALPHA
     return out
 
 
-_LUT: np.ndarray | None = None
+_LUTS: dict[str, np.ndarray] = {}
 
 
-def potential_image(phi: np.ndarray, lo: float, hi: float) -> QImage:
-    """RGBA image of ``phi`` (V) mapped from ``lo`` to ``hi``; NaN transparent.
+def potential_image(phi: np.ndarray, lo: float, hi: float, cmap: str = "cividis") -> QImage:
+    """RGBA image of ``phi`` mapped from ``lo`` to ``hi`` (clipped); NaN transparent.
 
     Row ``i`` of the image is row ``i`` of ``phi`` (lowest y first): the y-up view
     shows it the right way round.
     """
-    global _LUT
-    if _LUT is None:
-        _LUT = colour_table()
+    if cmap not in _LUTS:
+        _LUTS[cmap] = colour_table(name=cmap)
+    lut = _LUTS[cmap]
     span = hi - lo if hi > lo else 1.0
     t = np.nan_to_num((phi - lo) / span, nan=0.0)
-    idx = np.clip((t * (len(_LUT) - 1)).round().astype(int), 0, len(_LUT) - 1)
-    rgba = _LUT[idx]
+    idx = np.clip((t * (len(lut) - 1)).round().astype(int), 0, len(lut) - 1)
+    rgba = lut[idx]
     rgba[np.isnan(phi)] = 0
     rgba = np.ascontiguousarray(rgba)
     h, w = phi.shape
@@ -112,12 +115,12 @@ class FieldOverlays:
 
     def __init__(self, underlay: QGraphicsItemGroup, overlay: QGraphicsItemGroup) -> None:
         self.underlay, self.overlay = underlay, overlay
-        self.visible = dict.fromkeys(OVERLAY_NAMES, True)
+        self.visible = {n: n not in DEFAULT_OFF for n in OVERLAY_NAMES}
         self.groups: dict[str, QGraphicsItemGroup] = {}
         for name in OVERLAY_NAMES:
             g = QGraphicsItemGroup()
             g.setHandlesChildEvents(False)
-            (underlay if name == "potential_map" else overlay).addToGroup(g)
+            (underlay if name in UNDERLAYS else overlay).addToGroup(g)
             self.groups[name] = g
         self.result: LiveResult | None = None
 
@@ -137,6 +140,7 @@ class FieldOverlays:
         self.clear()
         self.result = res
         self._potential_map(res)
+        self._field_map(res)
         self._equipotentials(res)
         self._field_lines(res)
         self._hot_spots(res)
@@ -150,14 +154,24 @@ class FieldOverlays:
 
     def _potential_map(self, res: LiveResult) -> None:
         volts = [p.volts for p in res.solution.parts if p.volts is not None] + [0.0]
-        img = potential_image(res.raster_phi, min(volts), max(volts))
+        self._raster("potential_map", res,
+                     potential_image(res.raster_phi, min(volts), max(volts)))
+
+    def _field_map(self, res: LiveResult) -> None:
+        """|E| from 0 to the smallest limit at any conductor's peak (kV/mm), clipped."""
+        limits = [p.limit_at_peak_kV_per_mm for p in res.solution.parts
+                  if p.kind != "dielectric" and p.limit_at_peak_kV_per_mm > 0]
+        top = min(limits) if limits else float(np.nanmax(res.raster_E))
+        self._raster("field_map", res, potential_image(res.raster_E, 0.0, top, "magma"))
+
+    def _raster(self, name: str, res: LiveResult, img: QImage) -> None:
         x0, y0, x1, y1 = res.raster_box_mm
         item = QGraphicsPixmapItem(QPixmap.fromImage(img))
         item.setTransformationMode(Qt.TransformationMode.SmoothTransformation)
         item.setTransform(QTransform.fromScale((x1 - x0) / img.width(),
                                                (y1 - y0) / img.height()))
         item.setPos(x0, y0)
-        self._add("potential_map", item)
+        self._add(name, item)
 
     def _equipotentials(self, res: LiveResult) -> None:
         for level, lines in res.equipotentials:

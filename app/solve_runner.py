@@ -48,6 +48,8 @@ class LiveResult:
     conductors."""
     raster_box_mm: tuple[float, float, float, float]
     """(x0, y0, x1, y1) of the raster's outer pixel edges."""
+    raster_E: np.ndarray
+    """Field magnitude in kV/mm on the same raster; NaN inside conductors."""
     seconds: float
     notes: tuple[str, ...] = field(default_factory=tuple)
 
@@ -67,8 +69,9 @@ def equipotential_levels(solution: Solution, step_percent: float) -> list[float]
 
 
 def resample(solution: Solution, px: int = RASTER_PX
-             ) -> tuple[np.ndarray, tuple[float, float, float, float]]:
-    """The potential bilinearly resampled on a regular raster over the view box.
+             ) -> tuple[np.ndarray, np.ndarray, tuple[float, float, float, float]]:
+    """Potential (V) and field magnitude (kV/mm) bilinearly resampled on a regular
+    raster over the view box.
 
     The solver's grid is graded (fine near the parts), so the node values are first
     mapped to fractional grid indices per axis, then interpolated.  Nodes inside a
@@ -92,8 +95,11 @@ def resample(solution: Solution, px: int = RASTER_PX
     phi = map_coordinates(solution.phi, coords, order=1).reshape(ny, nx)
     inside = map_coordinates((solution.conductor >= 0).astype(float), coords,
                              order=1).reshape(ny, nx)
+    emag = map_coordinates(np.hypot(solution.Ex_kV_per_mm, solution.Ey_kV_per_mm),
+                           coords, order=1).reshape(ny, nx)
     phi[inside > 0.5] = np.nan
-    return phi, (x0, y0, x1, y1)
+    emag[inside > 0.5] = np.nan
+    return phi, emag, (x0, y0, x1, y1)
 
 
 def compute(layout: Layout, revision: int, resolution: Resolution, estimate_error: bool,
@@ -110,8 +116,8 @@ def compute(layout: Layout, revision: int, resolution: Resolution, estimate_erro
     except Exception as exc:  # noqa: BLE001 - a tracer failure must not hide the solve
         lines = []
         notes.append(f"field lines could not be traced: {exc}")
-    raster, box = resample(sol)
-    return LiveResult(revision, resolution, sol, eq, lines, raster, box,
+    raster, emag, box = resample(sol)
+    return LiveResult(revision, resolution, sol, eq, lines, raster, box, emag,
                       time.perf_counter() - t0, tuple(notes))
 
 

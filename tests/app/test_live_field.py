@@ -201,3 +201,20 @@ def test_cursor_readout_matches_the_solver_and_the_image_field(qtbot, tmp_path) 
     per_lambda = ROD_V / 1000.0 / math.log((h + s) / a)
     assert e_shown == pytest.approx(per_lambda * (1 / (s - y) + 1 / (s + y)), rel=0.05)
     assert "kV" in text and "kV/mm" in text
+
+
+def test_field_map_is_off_by_default_and_brightest_near_the_rod(qtbot, tmp_path) -> None:
+    w, live = live_window(qtbot, tmp_path, rod_over_plate(20.0))
+    assert not live.actions["field_map"].isChecked()
+    assert not live.overlays.groups["field_map"].isVisible()
+    live.actions["field_map"].setChecked(True)
+    assert live.overlays.groups["field_map"].isVisible()
+    res = live.overlays.result
+    e = res.raster_E
+    iy, ix = np.unravel_index(np.nanargmax(e), e.shape)
+    x0, y0, x1, y1 = res.raster_box_mm
+    x = x0 + (ix + 0.5) * (x1 - x0) / e.shape[1]
+    y = y0 + (iy + 0.5) * (y1 - y0) / e.shape[0]
+    # the strongest field lies in the gap just under the rod (image-charge geometry)
+    assert abs(x) < 3.0 and 10.0 < y < 17.0
+    assert np.nanmax(e) == pytest.approx(image_peak_kV_per_mm(20.0), rel=0.15)
