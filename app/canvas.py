@@ -177,9 +177,16 @@ class Canvas(QGraphicsView):
         self.tool.deactivate()
         self.tool = self.tools[name]
         self.tool.activate()
+        self._tool_cursor()
+        self.preview_item.set_snap(None)
         self._on_preview_changed()
         self.ctx.status(f"{self.tool.label}: {self.tool.hint}")
         self.tool_changed.emit(name)
+
+    def _tool_cursor(self) -> None:
+        drawing = self.tool.name not in ("select", "vertex")
+        self.viewport().setCursor(Qt.CursorShape.CrossCursor if drawing
+                                  else Qt.CursorShape.ArrowCursor)
 
     # ------------------------------------------------------------------ zoom and pan
 
@@ -306,14 +313,22 @@ class Canvas(QGraphicsView):
             self._pan_from += QPointF(d)
             self.pan_pixels(d.x(), d.y())
         else:
+            self.ctx.last_snap = None
+            if self.tool.name not in ("select", "vertex") and not self._left_down:
+                self.ctx.snap(pt)  # show where a click would land
             self.tool.move(pt, self._left_down)
+            self.preview_item.set_snap(self.ctx.last_snap)
         event.accept()
+
+    def leaveEvent(self, event) -> None:  # noqa: ANN001
+        self.preview_item.set_snap(None)
+        super().leaveEvent(event)
 
     def mouseReleaseEvent(self, event: QMouseEvent) -> None:
         if self._pan_from is not None and event.button() in (Qt.MouseButton.MiddleButton,
                                                              Qt.MouseButton.LeftButton):
             self._pan_from = None
-            self.viewport().unsetCursor()
+            self._tool_cursor()
         elif event.button() == Qt.MouseButton.LeftButton:
             self._left_down = False
             self.tool.release(self.scene_point(event.position()))
@@ -341,6 +356,6 @@ class Canvas(QGraphicsView):
     def keyReleaseEvent(self, event: QKeyEvent) -> None:
         if event.key() == Qt.Key.Key_Space and not event.isAutoRepeat():
             self._space = False
-            self.viewport().unsetCursor()
+            self._tool_cursor()
             return
         super().keyReleaseEvent(event)

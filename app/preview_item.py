@@ -26,7 +26,15 @@ class PreviewItem(QGraphicsItem):
     def __init__(self) -> None:
         super().__init__()
         self.preview: Preview | None = None
+        self.snap: tuple[tuple[float, float], str] | None = None
         self.setAcceptedMouseButtons(Qt.MouseButton.NoButton)
+
+    def set_snap(self, snap: tuple[tuple[float, float], str] | None) -> None:
+        """Mark the point the cursor snaps to: a diamond on a vertex, a ring on an outline."""
+        shown = snap if snap is not None and snap[1] != "grid" else None
+        if shown != self.snap:
+            self.snap = shown
+            self.update()
 
     def set_preview(self, preview: Preview | None) -> None:
         self.preview = preview
@@ -37,10 +45,12 @@ class PreviewItem(QGraphicsItem):
 
     def paint(self, painter: QPainter, option: QStyleOptionGraphicsItem,
               widget: QWidget | None = None) -> None:
+        t = painter.worldTransform()
+        if self.snap is not None:
+            self._snap_marker(painter, t)
         p = self.preview
         if p is None:
             return
-        t = painter.worldTransform()
         if p.shape is not None:
             path, _ = shape_path(Part("preview", "electrode", p.shape, volts=0.0))
             pen = QPen(palette.PREVIEW, 1.5, Qt.PenStyle.DashLine)
@@ -57,6 +67,21 @@ class PreviewItem(QGraphicsItem):
             self._box(painter, t, p)
         if p.handles:
             self._handles(painter, t, p)
+        painter.restore()
+
+    def _snap_marker(self, painter: QPainter, t: QTransform) -> None:
+        assert self.snap is not None
+        c = t.map(QPointF(*self.snap[0]))
+        painter.save()
+        painter.resetTransform()
+        painter.setRenderHint(QPainter.RenderHint.Antialiasing)
+        painter.setPen(QPen(palette.SNAP, 1.6))
+        painter.setBrush(Qt.BrushStyle.NoBrush)
+        if self.snap[1] == "vertex":
+            painter.drawPolygon(QPolygonF([c + QPointF(0, -6), c + QPointF(6, 0),
+                                           c + QPointF(0, 6), c + QPointF(-6, 0)]))
+        else:
+            painter.drawEllipse(c, 5.0, 5.0)
         painter.restore()
 
     @staticmethod

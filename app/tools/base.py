@@ -56,10 +56,15 @@ class ToolContext:
     tol_mm: float = 1.0
     status: Callable[[str], None] = lambda msg: None
 
+    last_snap: tuple[Point, str] | None = None
+    """The last snapped point and what it snapped to ('vertex', 'outline', 'grid')."""
+
     def snap(self, pt: Point, exclude: Collection[int] = ()) -> Point:
         """``pt`` snapped (vertex, outline, grid) and kept at r >= 0 in axisymmetry."""
-        q, _ = self.snapper.snap(pt, self.tol_mm, exclude)
-        return self.constrain(q)
+        q, kind = self.snapper.snap(pt, self.tol_mm, exclude)
+        q = self.constrain(q)
+        self.last_snap = (q, kind) if kind else None
+        return q
 
     def constrain(self, pt: Point) -> Point:
         """Keep a point at r = x >= 0 in an axisymmetric layout."""

@@ -192,3 +192,12 @@ def test_snapping_can_be_switched_off(qtbot, empty) -> None:  # noqa: ANN001
     mouse_drag(qtbot, empty, target, (target[0] + 20.0, target[1]))
     s = _last_shape(empty)
     assert s["center"] == pytest.approx(list(target), abs=1.0 / c.px_per_mm())
+
+
+def test_drawing_tools_show_where_a_click_snaps(qtbot, tmp_path) -> None:  # noqa: ANN001
+    w = open_window(qtbot, tmp_path, every_shape_layout())
+    w.actions_["tool_polygon"].trigger()
+    qtbot.mouseMove(w.canvas.viewport(), px(w, -20.3, 10.2))  # near the bar's corner
+    assert w.canvas.preview_item.snap == ((-20.0, 10.0), "vertex")
+    qtbot.mouseMove(w.canvas.viewport(), px(w, 150.0, 150.0))  # open canvas: grid, no mark
+    assert w.canvas.preview_item.snap is None
