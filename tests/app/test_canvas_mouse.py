@@ -199,5 +199,5 @@ def test_drawing_tools_show_where_a_click_snaps(qtbot, tmp_path) -> None:  # noq
     w.actions_["tool_polygon"].trigger()
     qtbot.mouseMove(w.canvas.viewport(), px(w, -20.3, 10.2))  # near the bar's corner
     assert w.canvas.preview_item.snap == ((-20.0, 10.0), "vertex")
-    qtbot.mouseMove(w.canvas.viewport(), px(w, 150.0, 150.0))  # open canvas: grid, no mark
+    qtbot.mouseMove(w.canvas.viewport(), px(w, 95.0, -45.0))  # open canvas: grid, no mark
     assert w.canvas.preview_item.snap is None
