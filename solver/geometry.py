@@ -207,6 +207,11 @@ def _half_on_axis(part: Part, ol: PartOutline) -> PartOutline:
     half = ol.polygon.intersection(shapely.box(0.0, y0 - 1.0, x1 + 1.0, y1 + 1.0))
     if not isinstance(half, ShPolygon) or half.is_empty:
         return ol
+    ring = oriented_rings(half)[0]
+    # the cut leaves a sliver edge where the axis passes close to a vertex: drop it
+    seg = np.hypot(*(np.roll(ring, -1, axis=0) - ring).T)
+    keep = (seg > 1e-3 * np.median(seg)) | (np.abs(ring[:, 0]) < 1e-12)
+    half = ShPolygon(ring[keep])
     return PartOutline(part.name, half, oriented_rings(half))
 
 

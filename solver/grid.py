@@ -161,6 +161,11 @@ def _surface_requests(layout: Layout, outlines: tuple[PartOutline, ...], n_per: 
     for k, ol in enumerate(outlines):
         for ring in ol.rings:
             radius = vertex_radius(ring)
+            if layout.symmetry == "axisymmetric":
+                # an outline leaving the axis square is smooth in 3D: take the neighbours'
+                smooth = smooth_on_axis(ring)
+                radius = np.where(smooth, np.maximum(np.abs(np.roll(radius, 1)),
+                                                     np.abs(np.roll(radius, -1))), radius)
             edge_len = np.hypot(*(np.roll(ring, -1, axis=0) - ring).T)
             local = np.minimum(np.abs(radius), size)
             corner = radius == 0
@@ -206,6 +211,19 @@ def _gap_to_others(pts: np.ndarray, polys: list, k: int) -> np.ndarray:
         if j != k and shapely.distance(polys[k], poly) > 0:
             gap = np.minimum(gap, shapely.distance(p, poly))
     return gap
+
+
+def smooth_on_axis(ring: np.ndarray) -> np.ndarray:
+    """Vertices on the axis where the outline leaves it at right angles (within 5 deg):
+    the surface of revolution is smooth there, not a cone tip."""
+    on_axis = np.abs(ring[:, 0]) < 1e-9
+    out = np.zeros(len(ring), bool)
+    for nb in (np.roll(ring, 1, axis=0), np.roll(ring, -1, axis=0)):
+        d = nb - ring
+        off = np.abs(nb[:, 0]) > 1e-9
+        flat = np.abs(d[:, 1]) <= np.tan(np.radians(5.0)) * np.abs(d[:, 0])
+        out |= on_axis & off & flat
+    return out
 
 
 def vertex_radius(ring: np.ndarray) -> np.ndarray:

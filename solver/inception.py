@@ -19,7 +19,7 @@ number is shown.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import TYPE_CHECKING
 
 import numpy as np
@@ -105,7 +105,7 @@ def describe_inception(inc: Inception) -> list[str]:
     """Plain-text lines (with units) for a results panel or a report table.
 
     Example: ``"Inception (streamer estimate): 58.1 kV on HV sphere (1.00 x applied)"``.
-    Show :data:`INCEPTION_CAUTION` with them.
+    The notes follow, and :data:`INCEPTION_CAUTION` is the last line.
     """
     top = max(inc.volts.items(), key=lambda kv: abs(kv[1]), default=("", 0.0))
     lines = [f"Inception (streamer estimate): {top[1] / 1000:.3g} kV on {top[0]} "
@@ -117,7 +117,7 @@ def describe_inception(inc: Inception) -> list[str]:
                  f"{inc.p_bar:.3g} bar at 20 degC equivalent, K = {inc.K:g}")
     if inc.utilisation is not None:
         lines.append(f"Field utilisation of the gap (mean / peak field): {inc.utilisation:.2f}")
-    return lines + list(inc.notes)
+    return lines + list(inc.notes) + [INCEPTION_CAUTION]
 
 
 def inception_to_json(inc: Inception, max_points: int = 400) -> dict:
@@ -209,24 +209,57 @@ def _notes(solution: Solution, start_part: str, ends_at: str) -> tuple[str, ...]
 
 
 def _start_points(solution: Solution) -> list[tuple[str, np.ndarray, np.ndarray, float]]:
-    """(part, point mm, outward normal, surface field kV/mm) at each conductor's peak and
-    at each hot spot on a conductor."""
+    """(part, point mm, outward normal, surface field kV/mm) where paths begin: each
+    conductor's peak, its peak away from solid insulation, and each hot spot on it."""
     conductors = {p.name for p in solution.layout.parts if p.is_conductor}
     traces = [t for t in solution.surfaces if t.part in conductors and len(t.E_kV_per_mm)]
+    clear = _clear_of_solids(solution, traces)
     picks: set[tuple[int, int]] = set()
     for name in conductors:
-        own = [(k, t) for k, t in enumerate(traces) if t.part == name]
-        if own:
-            k, t = max(own, key=lambda kt: float(np.max(kt[1].E_kV_per_mm)))
-            picks.add((k, int(np.argmax(t.E_kV_per_mm))))
+        for masks in (None, clear):
+            best = _peak_index(traces, name, masks)
+            if best is not None:
+                picks.add(best)
     for spot in solution.hot_spots:
-        own = [(k, t) for k, t in enumerate(traces) if t.part == spot.part]
-        if own:
-            dist = [(float(np.min(np.hypot(*(t.xy_mm - spot.at_mm).T))), k) for k, t in own]
+        dist = [(float(np.min(np.hypot(*(t.xy_mm - spot.at_mm).T))), k)
+                for k, t in enumerate(traces) if t.part == spot.part]
+        if dist:
             k = min(dist)[1]
             picks.add((k, int(np.argmin(np.hypot(*(traces[k].xy_mm - spot.at_mm).T)))))
     return [(traces[k].part, traces[k].xy_mm[i], traces[k].normal[i],
              float(traces[k].E_kV_per_mm[i])) for k, i in sorted(picks)]
+
+
+def _peak_index(traces: list, name: str,
+                masks: list[np.ndarray] | None) -> tuple[int, int] | None:
+    """(trace, sample) of the highest field on a part, among masked samples if given."""
+    best, where = -1.0, None
+    for k, t in enumerate(traces):
+        if t.part != name:
+            continue
+        E = t.E_kV_per_mm if masks is None else np.where(masks[k], t.E_kV_per_mm, -1.0)
+        i = int(np.argmax(E))
+        if E[i] > best:
+            best, where = float(E[i]), (k, i)
+    return where if best >= 0.0 else None
+
+
+def _clear_of_solids(solution: Solution, traces: list) -> list[np.ndarray]:
+    """Per trace, the samples farther than three sample spacings from any dielectric."""
+    import shapely
+
+    from .geometry import part_outline
+
+    solids = [part_outline(p).polygon for p in solution.layout.parts if p.kind == "dielectric"]
+    if not solids:
+        return [np.ones(len(t.E_kV_per_mm), bool) for t in traces]
+    union = shapely.union_all(solids)
+    masks = []
+    for t in traces:
+        spacing = float(np.median(np.diff(t.s_mm))) if len(t.s_mm) > 1 else 0.0
+        d = shapely.distance(union, shapely.points(t.xy_mm))
+        masks.append(d > 3.0 * spacing)
+    return masks
 
 
 def _reversed(path: GasPath) -> GasPath:
@@ -296,7 +329,23 @@ def estimate_inception(solution: Solution, pressure_kPa: float | None = None,
             problems.append(f"{start[0]}: {exc}")
     if not results:
         raise InceptionError("no inception path could be traced: " + "; ".join(problems))
-    return min(results, key=lambda inc: inc.scale)
+    return _least_in_gas(results)
+
+
+def _least_in_gas(results: list[Inception]) -> Inception:
+    """The lowest estimate among paths that stay in the gas; paths that run into solid
+    insulation (triple junctions, surfaces) are only noted, since a discharge along a
+    solid surface is a different mechanism that this criterion does not cover."""
+    in_gas = [r for r in results if not r.ends_at.startswith("solid insulation")]
+    best = min(in_gas or results, key=lambda inc: inc.scale)
+    solid = sorted({f"{r.start_part} into {r.ends_at.removeprefix('solid insulation ')} "
+                    f"after {r.s_mm[-1]:.3g} mm" for r in results
+                    if r.ends_at.startswith("solid insulation") and r.scale < best.scale})
+    if not solid:
+        return best
+    note = ("field lines run from " + "; ".join(solid) + ": discharge along a solid surface "
+            "(creepage, triple junction) is not estimated here and may start lower")
+    return replace(best, notes=best.notes + (note,))
 
 
 __all__ = [

@@ -13,7 +13,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 import shapely
 
-from .grid import vertex_radius
+from .grid import smooth_on_axis, vertex_radius
 from .post import hot_spots, make_trace, sample, trace_peak
 from .solution import HotSpot, PartResult, Solution, SurfaceTrace
 from .surface import conductor_samples
@@ -105,24 +105,11 @@ def _near_sharp_corner(pl: PreparedLayout, k: int, at: np.ndarray) -> bool:
         r = vertex_radius(ring)
         corner = (r == 0) & (_turn(ring) > 0)
         if pl.layout.symmetry == "axisymmetric":
-            corner &= ~_smooth_on_axis(ring)
+            corner &= ~smooth_on_axis(ring)
         corners = ring[corner]
         if len(corners) and np.min(np.hypot(*(corners - at).T)) < SHARP_CELLS * h:
             return True
     return False
-
-
-def _smooth_on_axis(ring: np.ndarray) -> np.ndarray:
-    """Vertices on the axis where the outline leaves it at right angles (within 5 deg):
-    the surface of revolution is smooth there, not a cone tip."""
-    on_axis = np.abs(ring[:, 0]) < 1e-9
-    out = np.zeros(len(ring), bool)
-    for nb in (np.roll(ring, 1, axis=0), np.roll(ring, -1, axis=0)):
-        d = nb - ring
-        off = np.abs(nb[:, 0]) > 1e-9
-        flat = np.abs(d[:, 1]) <= np.tan(np.radians(5.0)) * np.abs(d[:, 0])
-        out |= on_axis & off & flat
-    return out
 
 
 def _turn(ring: np.ndarray) -> np.ndarray:
