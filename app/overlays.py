@@ -13,6 +13,8 @@ the parts remain legible beneath the lines.
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 from PySide6.QtCore import QPointF, QRectF, Qt
 from PySide6.QtGui import QBrush, QColor, QFont, QImage, QPainterPath, QPen, QPixmap, QTransform
@@ -32,7 +34,7 @@ OVERLAY_NAMES = ("potential_map", "field_map", "equipotentials", "field_lines", 
 UNDERLAYS = ("potential_map", "field_map")
 DEFAULT_OFF = ("field_map",)
 OVERLAY_LABELS = {"potential_map": "Potential colour map",
-                  "field_map": "Field-strength map (brightest at the limit)",
+                  "field_map": "Field-strength map (darkest at the limit)",
                   "equipotentials": "Equipotential lines",
                   "field_lines": "Field lines",
                   "hot_spots": "Hot spots"}
@@ -43,7 +45,7 @@ LABEL_BG = QColor(251, 250, 247, 220)
 
 
 def colour_table(n: int = 256, name: str = "cividis") -> np.ndarray:
-    """(n, 4) uint8 RGBA lookup table of a colour map (cividis: potential; magma: |E|)."""
+    """(n, 4) uint8 RGBA lookup table of a colour map (cividis: potential; reversed magma: |E|)."""
     from matplotlib import colormaps
 
     rgba = colormaps[name](np.linspace(0.0, 1.0, n))
@@ -55,8 +57,12 @@ def colour_table(n: int = 256, name: str = "cividis") -> np.ndarray:
 _LUTS: dict[str, np.ndarray] = {}
 
 
-def potential_image(phi: np.ndarray, lo: float, hi: float, cmap: str = "cividis") -> QImage:
+def potential_image(phi: np.ndarray, lo: float, hi: float, cmap: str = "cividis",
+                    fade_low: bool = False) -> QImage:
     """RGBA image of ``phi`` mapped from ``lo`` to ``hi`` (clipped); NaN transparent.
+
+    With ``fade_low`` the opacity grows with the value (transparent at ``lo``), so weak
+    regions leave the canvas visible and strong ones stand out.
 
     Row ``i`` of the image is row ``i`` of ``phi`` (lowest y first): the y-up view
     shows it the right way round.
@@ -68,6 +74,8 @@ def potential_image(phi: np.ndarray, lo: float, hi: float, cmap: str = "cividis"
     t = np.nan_to_num((phi - lo) / span, nan=0.0)
     idx = np.clip((t * (len(lut) - 1)).round().astype(int), 0, len(lut) - 1)
     rgba = lut[idx]
+    if fade_low:
+        rgba[..., 3] = np.clip(30 + 200 * np.clip(t, 0.0, 1.0), 0, 255).astype(np.uint8)
     rgba[np.isnan(phi)] = 0
     rgba = np.ascontiguousarray(rgba)
     h, w = phi.shape
@@ -162,7 +170,8 @@ class FieldOverlays:
         limits = [p.limit_at_peak_kV_per_mm for p in res.solution.parts
                   if p.kind != "dielectric" and p.limit_at_peak_kV_per_mm > 0]
         top = min(limits) if limits else float(np.nanmax(res.raster_E))
-        self._raster("field_map", res, potential_image(res.raster_E, 0.0, top, "magma"))
+        self._raster("field_map", res, potential_image(res.raster_E, 0.0, top, "magma_r",
+                                                       fade_low=True))
 
     def _raster(self, name: str, res: LiveResult, img: QImage) -> None:
         x0, y0, x1, y1 = res.raster_box_mm
@@ -195,11 +204,15 @@ class FieldOverlays:
         """A ring at each hot spot with its field and limit beside it, on the outer side.
 
         The text sits to the right of rings right of the hot spots' middle and to the
-        left of the others, so mirror-image corners do not stack their labels.
+        left of the others, so mirror-image corners do not stack their labels (always to
+        the right in an axisymmetric layout, whose axis is the left edge).
         """
         r = 9.0
         spots = res.solution.hot_spots
         mid_x = float(np.median([hs.at_mm[0] for hs in spots])) if spots else 0.0
+        x0, y0, x1, y1 = res.solution.view_box_mm
+        near_mm = 0.06 * max(x1 - x0, y1 - y0)
+        placed: list[tuple[float, float, bool]] = []
         for hs in spots:
             ring = QGraphicsEllipseItem(QRectF(-r, -r, 2 * r, 2 * r))
             ring.setFlag(QGraphicsItem.GraphicsItemFlag.ItemIgnoresTransformations, True)
@@ -216,8 +229,12 @@ class FieldOverlays:
             text.setFont(font)
             text.setBrush(QBrush(HOT_SPOT))
             width = text.boundingRect().width()
-            right = hs.at_mm[0] >= mid_x
-            text.setPos(r + 3 if right else -r - 3 - width, -r - 12)
+            right = hs.at_mm[0] >= mid_x or res.solution.layout.symmetry == "axisymmetric"
+            # stack the labels of hot spots close together on the same side
+            stack = sum(1 for px_, py_, side in placed if side == right
+                        and math.hypot(px_ - hs.at_mm[0], py_ - hs.at_mm[1]) < near_mm)
+            placed.append((hs.at_mm[0], hs.at_mm[1], right))
+            text.setPos(r + 3 if right else -r - 3 - width, -r - 12 + 28 * stack)
             self._add("hot_spots", ring)
     def hot_spot_count(self) -> int:
         return len(self.result.solution.hot_spots) if self.result else 0
