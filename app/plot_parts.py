@@ -8,9 +8,11 @@ floating conductor, or relative permittivity).
 from __future__ import annotations
 
 import numpy as np
+import shapely
 from matplotlib.axes import Axes
 from matplotlib.patches import PathPatch
 from matplotlib.path import Path as MplPath
+from shapely.geometry import Polygon as ShPolygon
 from shapely.ops import polylabel
 
 from solver.geometry import part_outline
@@ -71,6 +73,10 @@ def _label_part(ax: Axes, part: Part, polygon: object, solution: Solution,
     """
     x0, y0, x1, y1 = solution.view_box_mm
     span = max(x1 - x0, y1 - y0)
+    if solution.layout.symmetry == "axisymmetric":
+        polygon = _right_of_axis(polygon)
+        if polygon is None:
+            return
     pole = polylabel(polygon, tolerance=span * 1e-3)
     if not (x0 <= pole.x <= x1 and y0 <= pole.y <= y1):
         return
@@ -90,3 +96,14 @@ def _label_part(ax: Axes, part: Part, polygon: object, solution: Solution,
                 ha="center", va="center", fontsize=fontsize, zorder=8, linespacing=1.1,
                 bbox=box, arrowprops={"arrowstyle": "-", "color": edge, "lw": 0.8},
                 gid=f"{MOVABLE_CAPTION}{part.name}")
+
+
+def _right_of_axis(polygon: object) -> ShPolygon | None:
+    """The part of a region with r >= 0 (its largest piece), or None if nothing is left.
+
+    A circle centred on the axis is a sphere: only its r >= 0 half is in the section.
+    """
+    half = shapely.clip_by_rect(polygon, 0.0, -1e12, 1e12, 1e12)
+    pieces = [g for g in getattr(half, "geoms", [half]) if isinstance(g, ShPolygon)]
+    pieces = [g for g in pieces if g.area > 0]
+    return max(pieces, key=lambda g: g.area) if pieces else None
