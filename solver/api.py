@@ -24,7 +24,7 @@ from .discretize import EPS0, System, discretize
 from .geometry import PartOutline, layout_outlines
 from .grid import Grid, build_grid
 from .layout import FixedLimit, Layout, Resolution
-from .linsolve import Prepared, prepare
+from .linsolve import Prepared, prepare, single_threaded_blas
 from .post import grid_field, grid_potential
 from .results import summarise
 from .solution import Solution
@@ -49,6 +49,7 @@ class PreparedLayout:
     residual: float
 
 
+@single_threaded_blas
 def prepare_layout(layout: Layout, resolution: Resolution | None = None,
                    coarsen: float = 1.0, all_conductors: bool = True) -> PreparedLayout:
     """Grid, assemble and factorise; compute the unit solutions that are needed.
@@ -67,6 +68,7 @@ def prepare_layout(layout: Layout, resolution: Resolution | None = None,
     if grid.outer == "dirichlet" and grid.outer_volts != 0.0:
         wanted.append(n_parts)
     unit, charges = {}, {}
+    need_charges = all_conductors or any(p.kind == "floating" for p in layout.parts)
     worst, ok = 0.0, True
     prev = None
     for k in wanted:
@@ -76,7 +78,8 @@ def prepare_layout(layout: Layout, resolution: Resolution | None = None,
         unit[k] = u
         volts = np.zeros(n_parts + 1)
         volts[k] = 1.0
-        charges[k] = part_charges(layout, outlines, system, u, volts)
+        if need_charges:
+            charges[k] = part_charges(layout, outlines, system, u, volts)
     return PreparedLayout(layout, outlines, grid, system, prep, unit, charges,
                           time.perf_counter() - t0, ok, worst)
 
@@ -85,10 +88,17 @@ def part_charges(layout: Layout, outlines: tuple[PartOutline, ...], system: Syst
                  u: np.ndarray, volts: np.ndarray) -> np.ndarray:
     """Charge on every part (C/m planar, C axisymmetric; zero for dielectrics)."""
     phi = grid_potential(system, u, volts)
-    q = np.zeros(len(layout.parts))
-    scale = EPS0 * (1e-3 if system.grid.axisymmetric else 1.0)
-    for rs in conductor_samples(system, outlines, phi, volts):
-        q[rs.part] += scale * ring_charge_integral(rs, system.grid.axisymmetric)
+    return charges_from_samples(len(layout.parts), conductor_samples(system, outlines, phi,
+                                                                     volts),
+                                system.grid.axisymmetric)
+
+
+def charges_from_samples(n_parts: int, samples: list, axisymmetric: bool) -> np.ndarray:
+    """Gauss's law on each conductor ring's samples, summed per part (C/m or C)."""
+    q = np.zeros(n_parts)
+    scale = EPS0 * (1e-3 if axisymmetric else 1.0)
+    for rs in samples:
+        q[rs.part] += scale * ring_charge_integral(rs, axisymmetric)
     return q
 
 
@@ -111,6 +121,7 @@ def conductor_volts(pl: PreparedLayout) -> np.ndarray:
     return volts
 
 
+@single_threaded_blas
 def solve_prepared(pl: PreparedLayout, estimate: dict[str, float] | None = None,
                    extra_seconds: float = 0.0) -> Solution:
     """The Solution of a prepared layout by superposition of its unit solutions."""
@@ -122,15 +133,16 @@ def solve_prepared(pl: PreparedLayout, estimate: dict[str, float] | None = None,
             u += volts[k] * uk
     phi = grid_potential(pl.system, u, volts)
     ex, ey = grid_field(pl.system, phi, volts)
-    cap_idx = [k for k, p in enumerate(pl.layout.parts) if p.is_conductor and k in pl.unit]
-    cap = np.array([[pl.charges[j][i] for j in cap_idx] for i in cap_idx])
-    if len(cap_idx) != sum(p.is_conductor for p in pl.layout.parts):
-        cap = np.zeros((0, 0))
-        cap_idx = []
+    cap_idx = [k for k, p in enumerate(pl.layout.parts) if p.is_conductor and k in pl.charges]
+    if len(cap_idx) == sum(p.is_conductor for p in pl.layout.parts):
+        cap = np.array([[pl.charges[j][i] for j in cap_idx] for i in cap_idx])
+    else:
+        cap, cap_idx = np.zeros((0, 0)), []
     seconds = pl.setup_seconds + extra_seconds + time.perf_counter() - t0
     return summarise(pl, volts, u, phi, ex, ey, cap, cap_idx, seconds, estimate)
 
 
+@single_threaded_blas
 def solve(layout: Layout, resolution: Resolution | None = None, estimate_error: bool = True,
           capacitance: bool = True) -> Solution:
     """Solve a layout (see the module docstring); the main entry point of the solver.

@@ -31,10 +31,11 @@ from .layout import Layout, LayoutError, Resolution
 
 # cells per local length, growth per cell, cells across the region of interest
 RESOLUTION_SETTINGS: dict[str, tuple[float, float, float]] = {
-    "draft": (8.0, 0.20, 24.0),
+    "draft": (7.0, 0.20, 20.0),
     "normal": (20.0, 0.12, 40.0),
     "fine": (40.0, 0.08, 64.0),
 }
+BAND_BY_RESOLUTION = {"draft": 2.0, "normal": 6.0, "fine": 8.0}
 BAND_CELLS = 6.0
 """Cells of uniform spacing kept on each side of an outline before the grid grows:
 growth right at a surface costs the surface field its second order."""
@@ -106,7 +107,7 @@ def build_grid(layout: Layout, outlines: tuple[PartOutline, ...],
     lo, hi, outer, volts, centre = _domain(layout, (x0, y0, x1, y1), size, axisym)
     cap = unknown_cap or max_unknowns()
     axis_cap = max(1000, int(math.sqrt(cap) * 8))
-    band = BAND_CELLS
+    band = BAND_BY_RESOLUTION.get(res, BAND_CELLS) if isinstance(res, str) else BAND_CELLS
     xs = _axis(lo[0], hi[0], pts[:, 0], h_pts, growth, h_roi, (x0, x1), axis_cap, res, cap, band)
     ys = _axis(lo[1], hi[1], pts[:, 1], h_pts, growth, h_roi, (y0, y1), axis_cap, res, cap, band)
     n = len(xs) * len(ys)
@@ -206,10 +207,13 @@ def _gap_to_others(pts: np.ndarray, polys: list, k: int) -> np.ndarray:
     if len(polys) < 2:
         return gap
     p = shapely.points(pts)
+    size = max(b - a for a, b in zip(polys[k].bounds[:2], polys[k].bounds[2:]))
     for j, poly in enumerate(polys):
         # parts that touch form a wedge at the contact with no length scale of its own
         if j != k and shapely.distance(polys[k], poly) > 0:
-            gap = np.minimum(gap, shapely.distance(p, poly))
+            # a gap only sets a spacing: 1e-3 of the part's size is exact enough
+            coarse = poly.simplify(1e-3 * size) if len(poly.exterior.coords) > 64 else poly
+            gap = np.minimum(gap, shapely.distance(p, coarse))
     return gap
 
 

@@ -245,7 +245,7 @@ def _peak_index(traces: list, name: str,
 
 
 def _clear_of_solids(solution: Solution, traces: list) -> list[np.ndarray]:
-    """Per trace, the samples farther than three sample spacings from any dielectric."""
+    """Per trace, the samples farther than three local sample spacings from any dielectric."""
     import shapely
 
     from .geometry import part_outline
@@ -256,7 +256,7 @@ def _clear_of_solids(solution: Solution, traces: list) -> list[np.ndarray]:
     union = shapely.union_all(solids)
     masks = []
     for t in traces:
-        spacing = float(np.median(np.diff(t.s_mm))) if len(t.s_mm) > 1 else 0.0
+        spacing = np.gradient(t.s_mm) if len(t.s_mm) > 1 else np.zeros(len(t.s_mm))
         d = shapely.distance(union, shapely.points(t.xy_mm))
         masks.append(d > 3.0 * spacing)
     return masks

@@ -111,7 +111,7 @@ def _nearest_edge(ring: np.ndarray, xy: np.ndarray) -> np.ndarray:
 
 def make_trace(name: str, rs: RingSamples, ring: np.ndarray, limit_fn) -> SurfaceTrace:
     """A SurfaceTrace from ring samples; ``limit_fn(radius_mm) -> kV/mm``."""
-    radius = radius_at(ring, rs.xy_mm)
+    radius = radius_at(ring, rs.xy_mm, rs.edge)
     E = np.abs(rs.En_V_per_mm) / 1000.0
     return SurfaceTrace(part=name, ring=rs.ring, s_mm=rs.s_mm, xy_mm=rs.xy_mm,
                         normal=rs.normal, E_kV_per_mm=E, limit_kV_per_mm=limit_fn(radius),

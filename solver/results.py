@@ -29,14 +29,14 @@ def summarise(pl: PreparedLayout, volts: np.ndarray, u: np.ndarray, phi: np.ndar
               ex: np.ndarray, ey: np.ndarray, cap: np.ndarray, cap_idx: list[int],
               seconds: float, estimate: dict[str, float] | None) -> Solution:
     """Build the :class:`Solution` from a superposed potential."""
-    from .api import limit_function, part_charges
+    from .api import charges_from_samples, limit_function
 
     layout, system = pl.layout, pl.system
     limit_fn = limit_function(layout)
     samples = conductor_samples(system, pl.outlines, phi, volts)
     traces = [make_trace(layout.parts[rs.part].name, rs, pl.outlines[rs.part].rings[rs.ring],
                          limit_fn) for rs in samples]
-    charges = part_charges(layout, pl.outlines, system, u, volts)
+    charges = charges_from_samples(len(layout.parts), samples, system.grid.axisymmetric)
     partial = Solution(layout=layout, x_mm=system.grid.x, y_mm=system.grid.y, phi=phi,
                        Ex_kV_per_mm=ex, Ey_kV_per_mm=ey, conductor=system.conductor,
                        eps_r=system.eps_node, parts=(), surfaces=(), hot_spots=(),

@@ -42,6 +42,7 @@ class RingSamples:
     En_V_per_mm: np.ndarray
     eps_r: np.ndarray
     perimeter_mm: float
+    edge: np.ndarray
 
 
 def ring_arclength(ring: np.ndarray) -> tuple[np.ndarray, float]:
@@ -108,7 +109,7 @@ def _group(recs: list, outlines: tuple[PartOutline, ...], axisym: bool) -> list[
         o = np.argsort(s)
         out.append(RingSamples(int(key[0]), int(key[1]), s[o], xy[o], normal[m][o],
                                smooth_along(s[o], xy[o], En[m][o], perim, axisym), eps[m][o],
-                               perim))
+                               perim, e[o]))
     return out
 
 
@@ -133,7 +134,10 @@ def smooth_along(s: np.ndarray, xy: np.ndarray, f: np.ndarray, perimeter: float,
     if n < 2 * half + 3:
         return f
     step = np.diff(np.concatenate([s, [s[0] + perimeter]]))
-    gaps = np.flatnonzero(step > GAP_FACTOR * np.median(step))
+    # grids grade smoothly (<= 1.2 per cell); a step far longer than both neighbours is
+    # outline without samples (on the axis, or inside another conductor)
+    gaps = np.flatnonzero(step > GAP_FACTOR * np.maximum(np.roll(step, 1), np.roll(step, -1)))
+    spacing = float(np.median(step))
     if len(gaps) == 0:
         idx = (np.arange(n)[:, None] + np.arange(-half, half + 1)[None, :]) % n
         ds = s[idx] - s[:, None]
@@ -144,7 +148,7 @@ def smooth_along(s: np.ndarray, xy: np.ndarray, f: np.ndarray, perimeter: float,
     for a, g in zip(starts, np.roll(gaps, -1)):
         seg = np.arange(a, a + ((g - a) % n) + 1) % n
         ss = s[seg] + np.where(seg < seg[0], perimeter, 0.0)
-        out[seg] = _fit_segment(ss, f[seg], xy[seg], axisymmetric, half, np.median(step))
+        out[seg] = _fit_segment(ss, f[seg], xy[seg], axisymmetric, half, spacing)
     return out
 
 
