@@ -6,9 +6,7 @@ parts; lines and markers on its ``overlay`` layer.  Lines use cosmetic pens (wid
 screen pixels at any zoom); text and markers ignore the view transform, so they stay
 upright in the y-up view and keep their size.
 
-Colour map: matplotlib's *cividis* (perceptually uniform, readable with colour-vision
-deficiency), from the lowest to the highest potential, at 45 % opacity so the grid and
-the parts remain legible beneath the lines.
+Colour maps: see :mod:`app.colour_maps` (their RGBA arrays are made on the worker).
 """
 
 from __future__ import annotations
@@ -38,47 +36,15 @@ OVERLAY_LABELS = {"potential_map": "Potential colour map",
                   "equipotentials": "Equipotential lines",
                   "field_lines": "Field lines",
                   "hot_spots": "Hot spots"}
-MAP_ALPHA = 115
 EQUIPOTENTIAL = QColor("#2d3a4a")
 FIELD_LINE = QColor(150, 70, 40, 170)
 LABEL_BG = QColor(251, 250, 247, 220)
 
 
-def colour_table(n: int = 256, name: str = "cividis") -> np.ndarray:
-    """(n, 4) uint8 RGBA lookup table of a colour map (cividis: potential; reversed magma: |E|)."""
-    from matplotlib import colormaps
-
-    rgba = colormaps[name](np.linspace(0.0, 1.0, n))
-    out = (rgba * 255).round().astype(np.uint8)
-    out[:, 3] = MAP_ALPHA
-    return out
-
-
-_LUTS: dict[str, np.ndarray] = {}
-
-
-def potential_image(phi: np.ndarray, lo: float, hi: float, cmap: str = "cividis",
-                    fade_low: bool = False) -> QImage:
-    """RGBA image of ``phi`` mapped from ``lo`` to ``hi`` (clipped); NaN transparent.
-
-    With ``fade_low`` the opacity grows with the value (transparent at ``lo``), so weak
-    regions leave the canvas visible and strong ones stand out.
-
-    Row ``i`` of the image is row ``i`` of ``phi`` (lowest y first): the y-up view
-    shows it the right way round.
-    """
-    if cmap not in _LUTS:
-        _LUTS[cmap] = colour_table(name=cmap)
-    lut = _LUTS[cmap]
-    span = hi - lo if hi > lo else 1.0
-    t = np.nan_to_num((phi - lo) / span, nan=0.0)
-    idx = np.clip((t * (len(lut) - 1)).round().astype(int), 0, len(lut) - 1)
-    rgba = lut[idx]
-    if fade_low:
-        rgba[..., 3] = np.clip(30 + 200 * np.clip(t, 0.0, 1.0), 0, 255).astype(np.uint8)
-    rgba[np.isnan(phi)] = 0
-    rgba = np.ascontiguousarray(rgba)
-    h, w = phi.shape
+def rgba_image(rgba: np.ndarray) -> QImage:
+    """A QImage (own copy) of a (ny, nx, 4) uint8 array; row 0 is the lowest y, which
+    the y-up view shows the right way round."""
+    h, w = rgba.shape[:2]
     return QImage(rgba.data, w, h, 4 * w, QImage.Format.Format_RGBA8888).copy()
 
 
@@ -139,7 +105,6 @@ class FieldOverlays:
     def clear(self) -> None:
         for g in self.groups.values():
             for child in g.childItems():
-                g.removeFromGroup(child)
                 if child.scene() is not None:
                     child.scene().removeItem(child)
 
@@ -158,20 +123,13 @@ class FieldOverlays:
     # ------------------------------------------------------------------ items
 
     def _add(self, name: str, item: QGraphicsItem) -> None:
-        self.groups[name].addToGroup(item)
+        item.setParentItem(self.groups[name])  # cheaper than addToGroup; groups are untransformed
 
     def _potential_map(self, res: LiveResult) -> None:
-        volts = [p.volts for p in res.solution.parts if p.volts is not None] + [0.0]
-        self._raster("potential_map", res,
-                     potential_image(res.raster_phi, min(volts), max(volts)))
+        self._raster("potential_map", res, rgba_image(res.rgba_potential))
 
     def _field_map(self, res: LiveResult) -> None:
-        """|E| from 0 to the smallest limit at any conductor's peak (kV/mm), clipped."""
-        limits = [p.limit_at_peak_kV_per_mm for p in res.solution.parts
-                  if p.kind != "dielectric" and p.limit_at_peak_kV_per_mm > 0]
-        top = min(limits) if limits else float(np.nanmax(res.raster_E))
-        self._raster("field_map", res, potential_image(res.raster_E, 0.0, top, "magma_r",
-                                                       fade_low=True))
+        self._raster("field_map", res, rgba_image(res.rgba_field))
 
     def _raster(self, name: str, res: LiveResult, img: QImage) -> None:
         x0, y0, x1, y1 = res.raster_box_mm

@@ -28,6 +28,8 @@ import solver
 from solver.layout import Layout, LayoutError, Resolution
 from solver.solution import Solution
 
+from .colour_maps import map_rgba
+
 RASTER_PX = 360
 """Longest side, in pixels, of the regular raster the colour map is drawn from."""
 EQUIPOTENTIAL_STEP_PERCENT = 10.0
@@ -50,6 +52,11 @@ class LiveResult:
     """(x0, y0, x1, y1) of the raster's outer pixel edges."""
     raster_E: np.ndarray
     """Field magnitude in kV/mm on the same raster; NaN inside conductors."""
+    rgba_potential: np.ndarray
+    """(ny, nx, 4) uint8 colours of the potential map (made on the worker)."""
+    rgba_field: np.ndarray
+    """(ny, nx, 4) uint8 colours of the field-strength map, 0 to the smallest limit at
+    any conductor's peak (kV/mm)."""
     seconds: float
     notes: tuple[str, ...] = field(default_factory=tuple)
 
@@ -102,6 +109,18 @@ def resample(solution: Solution, px: int = RASTER_PX
     return phi, emag, (x0, y0, x1, y1)
 
 
+def thin(line: np.ndarray, max_points: int = 400) -> np.ndarray:
+    """Every k-th point of a polyline (ends kept) so it has at most ``max_points``.
+
+    The tracer steps half a grid cell, far finer than a screen pixel at a fitting zoom;
+    thinning keeps the painter paths built on the GUI thread small.
+    """
+    if len(line) <= max_points:
+        return line
+    step = int(np.ceil(len(line) / max_points))
+    return np.vstack([line[::step], line[-1:]])
+
+
 def compute(layout: Layout, revision: int, resolution: Resolution, estimate_error: bool,
             step_percent: float = EQUIPOTENTIAL_STEP_PERCENT,
             n_lines: int = FIELD_LINES) -> LiveResult:
@@ -116,8 +135,16 @@ def compute(layout: Layout, revision: int, resolution: Resolution, estimate_erro
     except Exception as exc:  # noqa: BLE001 - a tracer failure must not hide the solve
         lines = []
         notes.append(f"field lines could not be traced: {exc}")
+    eq = [(v, [thin(ln) for ln in lns]) for v, lns in eq]
+    lines = [thin(ln) for ln in lines]
     raster, emag, box = resample(sol)
+    volts = [p.volts for p in sol.parts if p.volts is not None] + [0.0]
+    limits = [p.limit_at_peak_kV_per_mm for p in sol.parts
+              if p.kind != "dielectric" and p.limit_at_peak_kV_per_mm > 0]
+    top = min(limits) if limits else float(np.nanmax(emag))
     return LiveResult(revision, resolution, sol, eq, lines, raster, box, emag,
+                      map_rgba(raster, min(volts), max(volts)),
+                      map_rgba(emag, 0.0, top, "magma_r", fade_low=True),
                       time.perf_counter() - t0, tuple(notes))
 
 
