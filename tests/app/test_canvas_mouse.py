@@ -32,6 +32,8 @@ def _last_shape(w) -> dict:  # noqa: ANN001
 
 
 def test_draw_rectangle(qtbot, empty) -> None:  # noqa: ANN001
+    # common practice, no source: what is drawn lands where the mouse went, within one grid step
+    #   of snapping
     empty.actions_["tool_rectangle"].trigger()
     mouse_drag(qtbot, empty, (-40.0, -20.0), (30.0, 25.0))
     s, g = _last_shape(empty), _grid(empty)
@@ -41,6 +43,7 @@ def test_draw_rectangle(qtbot, empty) -> None:  # noqa: ANN001
 
 
 def test_draw_circle_and_ellipse(qtbot, empty) -> None:  # noqa: ANN001
+    # common practice, no source: what is drawn lands where the mouse went, within snapping
     empty.actions_["tool_circle"].trigger()
     mouse_drag(qtbot, empty, (0.0, 0.0), (30.0, 0.0))
     s, g = _last_shape(empty), _grid(empty)
@@ -55,6 +58,7 @@ def test_draw_circle_and_ellipse(qtbot, empty) -> None:  # noqa: ANN001
 
 
 def test_draw_polygon_by_clicks_and_double_click(qtbot, empty) -> None:  # noqa: ANN001
+    # common practice, no source: what is drawn lands where the mouse went, within snapping
     empty.actions_["tool_polygon"].trigger()
     corners = [(-50.0, -40.0), (40.0, -40.0), (0.0, 40.0)]
     for p in corners[:-1]:
@@ -69,6 +73,7 @@ def test_draw_polygon_by_clicks_and_double_click(qtbot, empty) -> None:  # noqa:
 
 
 def test_draw_wire_with_enter_and_cancel_polygon_with_escape(qtbot, empty) -> None:  # noqa: ANN001
+    # common practice, no source: Esc cancels, Enter finishes
     empty.actions_["tool_polygon"].trigger()
     for p in [(-50.0, -40.0), (40.0, -40.0), (0.0, 40.0)]:
         click(qtbot, empty, p)
@@ -84,6 +89,7 @@ def test_draw_wire_with_enter_and_cancel_polygon_with_escape(qtbot, empty) -> No
 
 
 def test_cut_hole_by_drag(qtbot, empty) -> None:  # noqa: ANN001
+    # DESIGN.md section 2: a hole is a ring inside a polygon
     empty.actions_["tool_rectangle"].trigger()
     mouse_drag(qtbot, empty, (-50.0, -40.0), (50.0, 40.0))
     empty.actions_["tool_hole"].trigger()
@@ -95,6 +101,7 @@ def test_cut_hole_by_drag(qtbot, empty) -> None:  # noqa: ANN001
 
 
 def test_drag_vertex_and_edge(qtbot, tmp_path) -> None:  # noqa: ANN001
+    # from memory: an edge dragged along its normal stays parallel to itself
     w = open_window(qtbot, tmp_path, every_shape_layout())
     plate = w.doc.id_of("Plate")
     w.selection.set([plate])
@@ -111,6 +118,8 @@ def test_drag_vertex_and_edge(qtbot, tmp_path) -> None:  # noqa: ANN001
 
 
 def test_box_select_then_move(qtbot, tmp_path) -> None:  # noqa: ANN001
+    # common practice, no source: a box selects what it touches; a drag moves the whole selection
+    #   as one undo step
     w = open_window(qtbot, tmp_path, every_shape_layout())
     bar, ball = w.doc.id_of("Bar"), w.doc.id_of("Ball")
     mouse_drag(qtbot, w, (-50.0, 30.0), (45.0, 20.0))  # empty start, touches nothing
@@ -128,6 +137,7 @@ def test_box_select_then_move(qtbot, tmp_path) -> None:  # noqa: ANN001
 
 
 def test_wheel_zoom_keeps_the_point_under_the_cursor(qtbot, empty) -> None:  # noqa: ANN001
+    # common practice, no source: zooming about the cursor keeps the point under it fixed
     c = empty.canvas
     at = px(empty, 20.0, 10.0)
     before = c.mapToScene(at)
@@ -139,6 +149,7 @@ def test_wheel_zoom_keeps_the_point_under_the_cursor(qtbot, empty) -> None:  # n
 
 
 def test_cursor_position_in_status_bar(qtbot, empty) -> None:  # noqa: ANN001
+    # common practice, no source: the readout shows the scene point under the cursor, to a pixel
     qtbot.mouseMove(empty.canvas.viewport(), px(empty, 12.0, -7.0))
     text = empty.position_label.text()
     m = re.fullmatch(r"x = (-?[\d.]+) mm\s+y = (-?[\d.]+) mm", text)
@@ -154,6 +165,7 @@ def every_shape_layout_json() -> dict:
 
 
 def test_double_click_a_part_edits_its_outline(qtbot, tmp_path) -> None:  # noqa: ANN001
+    # common practice, no source: double-click on an object opens it for editing
     w = open_window(qtbot, tmp_path, every_shape_layout())
     click(qtbot, w, (-30.0, 0.0))
     qtbot.mouseDClick(w.canvas.viewport(), Qt.MouseButton.LeftButton, pos=px(w, -30.0, 0.0))
@@ -162,6 +174,7 @@ def test_double_click_a_part_edits_its_outline(qtbot, tmp_path) -> None:  # noqa
 
 
 def test_middle_button_and_space_drag_pan_the_view(qtbot, empty) -> None:  # noqa: ANN001
+    # common practice, no source: panning moves the content with the mouse, pixel for pixel
     vp = empty.canvas.viewport()
     a, b = px(empty, 0.0, 0.0), px(empty, 20.0, 10.0)
     s0 = empty.canvas.px_per_mm()
@@ -183,6 +196,7 @@ def test_middle_button_and_space_drag_pan_the_view(qtbot, empty) -> None:  # noq
 
 
 def test_snapping_can_be_switched_off(qtbot, empty) -> None:  # noqa: ANN001
+    # common practice, no source: with snapping off a point lands where it is clicked
     empty.actions_["snap"].trigger()
     assert not empty.snapper.enabled
     empty.actions_["tool_circle"].trigger()
@@ -195,6 +209,7 @@ def test_snapping_can_be_switched_off(qtbot, empty) -> None:  # noqa: ANN001
 
 
 def test_drawing_tools_show_where_a_click_snaps(qtbot, tmp_path) -> None:  # noqa: ANN001
+    # common practice, no source: the snap target is shown before the click
     w = open_window(qtbot, tmp_path, every_shape_layout())
     w.actions_["tool_polygon"].trigger()
     qtbot.mouseMove(w.canvas.viewport(), px(w, -20.3, 10.2))  # near the bar's corner

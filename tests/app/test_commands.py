@@ -66,6 +66,7 @@ def test_redo_then_undo_restores_the_document(qapp, name: str) -> None:
 
 
 def test_every_command_class_is_covered() -> None:
+    # common practice, no source: every undo command has a redo-then-undo check
     built = {type(f(Document(every_shape_layout()))) for f in CASES.values()}
     classes = {v for v in vars(c).values() if isinstance(v, type)
                and issubclass(v, c.QUndoCommand) and v.__module__ == c.__name__
@@ -74,6 +75,7 @@ def test_every_command_class_is_covered() -> None:
 
 
 def test_nudges_merge_into_one_step(qapp) -> None:
+    # common practice, no source: repeated arrow-key nudges are one undo step
     doc = Document(every_shape_layout())
     stack = QUndoStack()
     (ball,) = _ids(doc, "Ball")
@@ -86,6 +88,7 @@ def test_nudges_merge_into_one_step(qapp) -> None:
 
 
 def test_impossible_edits_say_why() -> None:
+    # common practice, no source: an impossible edit is refused with a reason
     doc = Document(every_shape_layout())
     cut = c.CutHoleCommand(doc, doc.id_of("Bar"), ((-35, -5), (-25, -5), (-30, 5)))
     cut.redo()

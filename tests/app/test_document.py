@@ -24,6 +24,7 @@ def test_document_never_imports_qt() -> None:
 
 
 def test_load_then_json_is_the_file_json() -> None:
+    # common practice, no source: opening then writing a file gives it back unchanged
     layout = every_shape_layout()
     doc = Document(layout)
     assert doc.to_json() == layout_to_json(layout)
@@ -32,6 +33,7 @@ def test_load_then_json_is_the_file_json() -> None:
 
 
 def test_signals_and_revision() -> None:
+    # common practice, no source: one event per change, none for a no-op
     doc = Document(every_shape_layout())
     seen: list[tuple[str, object]] = []
     doc.part_added.connect(lambda i: seen.append(("added", i)))
@@ -49,6 +51,7 @@ def test_signals_and_revision() -> None:
 
 
 def test_removed_part_comes_back_at_its_place_with_its_id() -> None:
+    # common practice, no source: undo of a delete restores the part where it was
     doc = Document(every_shape_layout())
     ids = doc.ids()
     index, part = doc.remove_part(ids[2])
@@ -57,6 +60,7 @@ def test_removed_part_comes_back_at_its_place_with_its_id() -> None:
 
 
 def test_invalid_state_is_held_and_reported_not_raised() -> None:
+    # DESIGN.md section 2: two different conductors may not overlap
     doc = Document(every_shape_layout())
     bar, ball = doc.id_of("Bar"), doc.id_of("Ball")
     # move the floating ball onto the 5 kV bar: two different conductors overlap
@@ -69,6 +73,7 @@ def test_invalid_state_is_held_and_reported_not_raised() -> None:
 
 
 def test_unique_names() -> None:
+    # DESIGN.md section 2: part names are unique
     doc = Document(every_shape_layout())
     assert doc.unique_name("Ball") == "Ball 2"
     doc.insert_part(Part("Ball 2", "floating", Circle((0, 150), 1), charge=0.0))
@@ -78,6 +83,7 @@ def test_unique_names() -> None:
 
 
 def test_settings_and_saved_state() -> None:
+    # common practice, no source: a document is dirty exactly when it differs from the saved one
     doc = Document(every_shape_layout(), path="/tmp/x.layout.json")
     doc.update_settings(symmetry="axisymmetric")
     assert doc.dirty and doc.snapshot().symmetry == "axisymmetric"
@@ -89,6 +95,7 @@ def test_settings_and_saved_state() -> None:
 
 
 def test_clear_gives_an_empty_clean_document() -> None:
+    # common practice, no source: New gives an empty, clean, untitled layout
     doc = Document(every_shape_layout())
     doc.clear()
     assert len(doc) == 0 and doc.path is None and not doc.dirty

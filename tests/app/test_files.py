@@ -61,6 +61,7 @@ def test_save_then_open_round_trips_to_identical_json(qtbot, tmp_path, monkeypat
 
 def test_corrupt_file_shows_the_message_and_keeps_the_document(qtbot, tmp_path,
                                                                 dialogs) -> None:  # noqa: ANN001
+    # common practice, no source: a failed open changes nothing
     w = open_window(qtbot, tmp_path, every_shape_layout())
     w.doc.update_settings(title="Work in progress")
     before, path_before = w.doc.to_json(), w.doc.path
@@ -76,6 +77,7 @@ def test_corrupt_file_shows_the_message_and_keeps_the_document(qtbot, tmp_path,
 
 
 def test_wrong_field_is_named(qtbot, tmp_path, dialogs) -> None:  # noqa: ANN001
+    # common practice, no source: the message names the part and the field
     w = open_window(qtbot, tmp_path, every_shape_layout())
     bad = tmp_path / "typo.layout.json"
     obj = layout_to_json(every_shape_layout())
@@ -87,6 +89,8 @@ def test_wrong_field_is_named(qtbot, tmp_path, dialogs) -> None:  # noqa: ANN001
 
 
 def test_overlapping_parts_can_be_opened_for_repair(qtbot, tmp_path, dialogs) -> None:  # noqa: ANN001
+    # DESIGN.md section 2: different conductors must not overlap; the editor is where that is
+    #   fixed
     w = open_window(qtbot, tmp_path)
     obj = layout_to_json(every_shape_layout())
     obj["parts"][1]["shape"]["center"] = [-30.0, 0.0]  # floating ball on the 5 kV bar
@@ -103,6 +107,7 @@ def test_overlapping_parts_can_be_opened_for_repair(qtbot, tmp_path, dialogs) ->
 
 
 def test_unsaved_changes_prompt(qtbot, tmp_path, monkeypatch, dialogs) -> None:  # noqa: ANN001
+    # common practice, no source: Cancel keeps the work; Save writes it first
     w = open_window(qtbot, tmp_path, every_shape_layout())
     w.doc.update_settings(title="Edited")
     seen, answers = dialogs
@@ -118,6 +123,7 @@ def test_unsaved_changes_prompt(qtbot, tmp_path, monkeypatch, dialogs) -> None: 
 
 
 def test_close_asks_and_can_be_refused(qtbot, tmp_path, dialogs) -> None:  # noqa: ANN001
+    # common practice, no source: closing with unsaved work asks first
     w = open_window(qtbot, tmp_path, every_shape_layout())
     w.doc.update_settings(title="Edited")
     dialogs[1].append(SB.Cancel)
@@ -128,6 +134,7 @@ def test_close_asks_and_can_be_refused(qtbot, tmp_path, dialogs) -> None:  # noq
 
 def test_failed_save_keeps_old_file_and_the_drawing(qtbot, tmp_path, monkeypatch,
                                                     dialogs) -> None:  # noqa: ANN001
+    # common practice, no source: a failed save loses nothing
     w = open_window(qtbot, tmp_path, every_shape_layout())
     _ask_file(monkeypatch, "getSaveFileName", tmp_path / "no_such_folder" / "x.layout.json")
     w.doc.update_settings(title="Edited")
@@ -137,6 +144,8 @@ def test_failed_save_keeps_old_file_and_the_drawing(qtbot, tmp_path, monkeypatch
 
 
 def test_save_writes_only_whole_files(qtbot, tmp_path, monkeypatch, dialogs) -> None:  # noqa: ANN001
+    # common practice, no source: an interrupted save leaves the old file whole (write, then
+    #   rename)
     target = tmp_path / "atomic.layout.json"
     target.write_text("old content")
     w = open_window(qtbot, tmp_path, every_shape_layout(), path=str(target))

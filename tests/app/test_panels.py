@@ -25,6 +25,7 @@ def _commit(field, value: float) -> None:  # noqa: ANN001
 
 
 def test_properties_edit_potential_in_kV_and_radius_in_mm(win) -> None:  # noqa: ANN001
+    # from memory: 1 kV = 1000 V; the file keeps volts
     ball = win.doc.id_of("Ball")
     win.selection.set([ball])
     panel = win.properties_panel
@@ -42,6 +43,7 @@ def test_properties_edit_potential_in_kV_and_radius_in_mm(win) -> None:  # noqa:
 
 
 def test_rename_refuses_a_taken_name(win) -> None:  # noqa: ANN001
+    # DESIGN.md section 2: part names are unique
     win.selection.set([win.doc.id_of("Ball")])
     name = win.properties_panel.name
     name.setText("Bar")
@@ -54,6 +56,7 @@ def test_rename_refuses_a_taken_name(win) -> None:  # noqa: ANN001
 
 
 def test_vertex_table_edit_and_bad_number(win) -> None:  # noqa: ANN001
+    # common practice, no source: a cell that is not a number changes nothing and says so
     plate = win.doc.id_of("Plate")
     win.selection.set([plate])
     table = win.properties_panel.shape_form.table
@@ -67,6 +70,8 @@ def test_vertex_table_edit_and_bad_number(win) -> None:  # noqa: ANN001
 
 
 def test_layout_settings_panel(qtbot, win) -> None:  # noqa: ANN001
+    # DESIGN.md section 2: boundary, limit, symmetry and resolution keys; axisymmetric parts at r
+    #   >= 0
     panel = win.settings_panel
     panel.limit.setCurrentIndex(1)
     assert isinstance(win.doc.settings.limit, PeekLimit)
@@ -94,6 +99,7 @@ def test_layout_settings_panel(qtbot, win) -> None:  # noqa: ANN001
 
 
 def test_window_actions_duplicate_mirror_delete(win) -> None:  # noqa: ANN001
+    # from memory: mirroring about a vertical line maps x to 2a - x
     bar = win.doc.id_of("Bar")
     win.selection.set([bar])
     win.actions_["duplicate"].trigger()
@@ -112,6 +118,7 @@ def test_window_actions_duplicate_mirror_delete(win) -> None:  # noqa: ANN001
 
 
 def test_delete_in_outline_tool_removes_the_current_vertex(qtbot, win, monkeypatch) -> None:  # noqa: ANN001
+    # common practice, no source: Delete acts on what the current tool points at
     from editor_window import click
     plate = win.doc.id_of("Plate")
     win.selection.set([plate])
@@ -125,6 +132,7 @@ def test_delete_in_outline_tool_removes_the_current_vertex(qtbot, win, monkeypat
 
 
 def test_tool_shortcut_keys(qtbot, win) -> None:  # noqa: ANN001
+    # common practice, no source: single-key tool shortcuts work when the canvas has focus
     win.canvas.setFocus()
     qtbot.keyClick(win.canvas, Qt.Key.Key_C)
     assert win.canvas.tool.name == "circle"

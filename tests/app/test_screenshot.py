@@ -44,6 +44,7 @@ def test_screenshot_of_the_sample_is_written_and_not_blank(tmp_path: Path) -> No
 
 
 def test_no_display_explains_instead_of_aborting() -> None:
+    # common practice, no source: a program without a display says so instead of crashing
     r = _cli(str(SAMPLE))
     assert r.returncode == 3
     assert "no display" in r.stderr and "--screenshot" in r.stderr
@@ -55,11 +56,13 @@ def test_no_display_explains_instead_of_aborting() -> None:
     (["--size", "50x50"], "width must lie"),
 ])
 def test_bad_size_is_refused(tmp_path: Path, args: list[str], words: str) -> None:
+    # common practice, no source: bad arguments are named in the message
     r = _cli(str(SAMPLE), "--screenshot", str(tmp_path / "x.png"), *args)
     assert r.returncode == 2 and words in r.stderr
 
 
 def test_bad_layout_is_refused_with_its_message(tmp_path: Path) -> None:
+    # common practice, no source: a bad file is named with its problem
     bad = tmp_path / "bad.layout.json"
     bad.write_text('{"stresslens_layout": 1, "parts": []')
     r = _cli(str(bad), "--screenshot", str(tmp_path / "x.png"))
@@ -68,6 +71,7 @@ def test_bad_layout_is_refused_with_its_message(tmp_path: Path) -> None:
 
 
 def test_window_waits_for_its_ready_check(qtbot, tmp_path: Path) -> None:  # noqa: ANN001
+    # common practice, no source: a screenshot waits until the window is ready
     from editor_window import open_window
     w = open_window(qtbot, tmp_path)
     assert w.is_ready()
@@ -79,6 +83,7 @@ def test_window_waits_for_its_ready_check(qtbot, tmp_path: Path) -> None:  # noq
 
 
 def test_about_box_carries_the_caution(qtbot, tmp_path: Path, monkeypatch) -> None:  # noqa: ANN001
+    # the product's rule: README, About box and reports carry the caution
     from editor_window import open_window
     from PySide6.QtWidgets import QMessageBox
 

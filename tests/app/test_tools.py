@@ -49,6 +49,8 @@ def newest(ctx: ToolContext) -> Part:
 
 
 def test_rectangle_with_corner_radius_and_snapping(qapp) -> None:
+    # common practice, no source: corners snap to the nearest grid node (a multiple of the 5 mm
+    #   spacing)
     ctx = make_ctx(snap=True, grid=5.0)
     ctx.options.corner_radius_mm = 1.5
     drag(RectangleTool(ctx), (101.2, 49.1), (139.4, 71.3))
@@ -61,12 +63,15 @@ def test_rectangle_with_corner_radius_and_snapping(qapp) -> None:
 
 
 def test_click_without_drag_adds_nothing_and_says_how(qapp) -> None:
+    # common practice, no source: a click is not a drag, so nothing is drawn
     ctx = make_ctx()
     drag(CircleTool(ctx), (100.0, 100.0), (100.1, 100.0))
     assert len(ctx.doc) == 5 and "drag" in ctx.messages[-1]
 
 
 def test_circle_and_ellipse(qapp) -> None:
+    # from memory: the rim point (103, 104) lies 5 mm from (100, 100) (a 3-4-5 triangle); an
+    #   ellipse inscribed in a box has semi-axes of half its sides
     ctx = make_ctx()
     ctx.options.new_kind = "floating"
     drag(CircleTool(ctx), (100.0, 100.0), (103.0, 104.0))
@@ -78,6 +83,7 @@ def test_circle_and_ellipse(qapp) -> None:
 
 
 def test_circle_stays_at_positive_radius_in_axisymmetry(qapp) -> None:
+    # DESIGN.md section 2: axisymmetric parts lie at r >= 0, so the radius stops at the axis
     from dataclasses import replace
     ctx = make_ctx(replace(every_shape_layout(), symmetry="axisymmetric", parts=()))
     drag(CircleTool(ctx), (3.0, 10.0), (10.0, 10.0))
@@ -85,6 +91,7 @@ def test_circle_stays_at_positive_radius_in_axisymmetry(qapp) -> None:
 
 
 def test_polygon_clicks_enter_and_escape(qapp) -> None:
+    # common practice, no source: Enter closes, Esc cancels, Backspace takes back the last point
     ctx = make_ctx()
     tool = PolygonTool(ctx)
     for p in [(100, 100), (120, 100), (110, 115)]:
@@ -101,6 +108,7 @@ def test_polygon_clicks_enter_and_escape(qapp) -> None:
 
 
 def test_polygon_double_click_closes_and_too_few_points_refused(qapp) -> None:
+    # common practice, no source: double-click closes; a polygon needs three corners
     ctx = make_ctx()
     tool = PolygonTool(ctx)
     tool.press((100, 100))
@@ -113,6 +121,7 @@ def test_polygon_double_click_closes_and_too_few_points_refused(qapp) -> None:
 
 
 def test_path_with_width(qapp) -> None:
+    # DESIGN.md section 2: a path is its points and a width
     ctx = make_ctx()
     ctx.options.path_width_mm = 0.8
     tool = PathTool(ctx)
@@ -123,6 +132,7 @@ def test_path_with_width(qapp) -> None:
 
 
 def test_hole_by_clicks_and_by_drag(qapp) -> None:
+    # DESIGN.md section 2: holes are rings of a polygon; a rectangle's corner radius carries over
     ctx = make_ctx()
     tool = HoleTool(ctx)
     for p in [(-35.0, -5.0), (-25.0, -5.0), (-30.0, 5.0)]:
@@ -141,6 +151,8 @@ def test_hole_by_clicks_and_by_drag(qapp) -> None:
 
 
 def test_select_click_shift_box_and_move(qapp) -> None:
+    # common practice, no source: click selects, shift-click adds, a box selects what it touches,
+    #   a drag is one undo step
     ctx = make_ctx(snap=True, grid=1.0)
     tool = SelectTool(ctx)
     bar, ball, lens = (ctx.doc.id_of(n) for n in ("Bar", "Ball", "Lens"))
@@ -162,6 +174,7 @@ def test_select_click_shift_box_and_move(qapp) -> None:
 
 
 def test_select_escape_during_drag_restores(qapp) -> None:
+    # common practice, no source: Esc during a drag puts everything back
     ctx = make_ctx()
     tool = SelectTool(ctx)
     ball = ctx.doc.id_of("Ball")
@@ -174,6 +187,7 @@ def test_select_escape_during_drag_restores(qapp) -> None:
 
 
 def test_nudge_and_delete(qapp) -> None:
+    # common practice, no source: arrow keys move by one grid step, ten with shift
     ctx = make_ctx(grid=0.5)
     tool = SelectTool(ctx)
     ball = ctx.doc.id_of("Ball")
@@ -188,6 +202,7 @@ def test_nudge_and_delete(qapp) -> None:
 
 
 def test_axisymmetric_move_stops_at_the_axis(qapp) -> None:
+    # DESIGN.md section 2: a disc of radius 4 mm kept at r >= 0 stops with its centre at r = 4 mm
     from dataclasses import replace
     layout = replace(every_shape_layout(), symmetry="axisymmetric",
                      parts=(Part("Disc", "electrode", Circle((10.0, 0.0), 4.0), volts=1.0),))
@@ -197,6 +212,8 @@ def test_axisymmetric_move_stops_at_the_axis(qapp) -> None:
 
 
 def test_vertex_drag_edge_drag_insert_remove_and_radius(qapp) -> None:
+    # from memory: shifting an edge along its normal keeps its direction and leaves the other
+    #   vertices
     ctx = make_ctx(snap=True, grid=1.0)
     tool = VertexTool(ctx)
     plate = ctx.doc.id_of("Plate")
@@ -223,6 +240,7 @@ def test_vertex_drag_edge_drag_insert_remove_and_radius(qapp) -> None:
 
 
 def test_vertex_tool_circle_handle_and_rect_edge(qapp) -> None:
+    # from memory: a rim handle's distance from the centre is the radius (30 -> 39 mm: 9 mm)
     ctx = make_ctx()
     tool = VertexTool(ctx)
     ball, bar = ctx.doc.id_of("Ball"), ctx.doc.id_of("Bar")
@@ -234,6 +252,7 @@ def test_vertex_tool_circle_handle_and_rect_edge(qapp) -> None:
 
 
 def test_vertex_tool_escape_restores(qapp) -> None:
+    # common practice, no source: Esc during a drag puts everything back
     ctx = make_ctx()
     tool = VertexTool(ctx)
     plate = ctx.doc.id_of("Plate")
@@ -246,6 +265,8 @@ def test_vertex_tool_escape_restores(qapp) -> None:
 
 
 def test_snapping_prefers_vertices_then_outlines_then_grid(qapp) -> None:
+    # from memory: the nearest point of a circle lies on the ray from its centre through the
+    #   cursor
     ctx = make_ctx(snap=True, grid=10.0)
     assert ctx.snapper.snap((-20.4, 10.3), 1.0) == ((-20.0, 10.0), "vertex")
     q, what = ctx.snapper.snap((30.2, 6.4), 1.0)  # top of the ball, r = 6 mm
