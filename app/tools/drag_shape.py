@@ -32,6 +32,9 @@ class DragShapeTool(Tool):
     def move(self, pt: Point, dragging: bool) -> None:
         if self.start is not None and dragging:
             self.current = self.ctx.snap(pt)
+            shape = self.shape_between(self.start, self.current)
+            if shape is not None:
+                self.ctx.status(f"{self.label}: {describe(shape)}")
             self._changed()
 
     def release(self, pt: Point) -> None:
@@ -99,6 +102,20 @@ class EllipseTool(DragShapeTool):
         if rx <= 0 or ry <= 0:
             return None
         return Ellipse(center=((a[0] + b[0]) / 2, (a[1] + b[1]) / 2), radii=(rx, ry))
+
+
+def describe(shape: Shape) -> str:
+    """The sizes of a shape being drawn, for the status bar (mm)."""
+    if isinstance(shape, Rect):
+        w, h = shape.max[0] - shape.min[0], shape.max[1] - shape.min[1]
+        return (f"{w:.4g} \u00d7 {h:.4g} mm from ({shape.min[0]:.4g}, {shape.min[1]:.4g}) mm"
+                + (f", corners r = {shape.corner_radius:.4g} mm" if shape.corner_radius else ""))
+    if isinstance(shape, Circle):
+        return (f"centre ({shape.center[0]:.4g}, {shape.center[1]:.4g}) mm, "
+                f"r = {shape.radius:.4g} mm")
+    assert isinstance(shape, Ellipse)
+    return (f"centre ({shape.center[0]:.4g}, {shape.center[1]:.4g}) mm, "
+            f"semi-axes {shape.radii[0]:.4g} \u00d7 {shape.radii[1]:.4g} mm")
 
 
 def _span(a: Point, b: Point) -> float:

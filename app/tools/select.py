@@ -62,6 +62,8 @@ class SelectTool(Tool):
         elif self.mode == "move":
             q = self.ctx.snapper.snap(pt, self.ctx.tol_mm, self.before)[0]
             self.delta = self._allowed((q[0] - self.anchor[0], q[1] - self.anchor[1]))
+            self.ctx.status(f"Move by \u0394x = {self.delta[0]:.4g} mm, "
+                            f"\u0394y = {self.delta[1]:.4g} mm")
             self.ctx.doc.set_interacting(True)
             for pid, b in self.before.items():
                 self.ctx.doc.replace_part(pid, _moved(b, self.delta))

@@ -61,9 +61,14 @@ class VertexTool(Tool):
                 self._changed()
             return
         assert self.before is not None
-        _, pid, _ = self.drag
+        kind, pid, _ = self.drag
         self.ctx.doc.set_interacting(True)
         self.ctx.doc.replace_part(pid, replace(self.before, shape=self._dragged_shape(pt)))
+        q = self._target(pt, pid)
+        if kind == "vertex":
+            self.ctx.status(f"Vertex at ({q[0]:.4g}, {q[1]:.4g}) mm")
+        else:
+            self.ctx.status(f"Edge through ({q[0]:.4g}, {q[1]:.4g}) mm")
         self._changed()
 
     def release(self, pt: Point) -> None:

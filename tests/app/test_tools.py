@@ -276,3 +276,23 @@ def test_snapping_prefers_vertices_then_outlines_then_grid(qapp) -> None:
     assert ctx.snapper.snap((123.0, 47.0), 1.0) == ((120.0, 50.0), "grid")
     ctx.snapper.enabled = False
     assert ctx.snapper.snap((123.0, 47.0), 1.0) == ((123.0, 47.0), "")
+
+
+def test_sizes_are_shown_while_drawing_and_moving(qapp) -> None:
+    # common practice, no source: the status bar reads out what is being drawn, in mm
+    ctx = make_ctx()
+    tool = RectangleTool(ctx)
+    tool.press((100.0, 100.0))
+    tool.move((140.0, 120.0), True)
+    assert ctx.messages[-1] == "Rectangle: 40 \u00d7 20 mm from (100, 100) mm"
+    tool.release((140.0, 120.0))
+    tool = CircleTool(ctx)
+    tool.press((100.0, 150.0))
+    tool.move((106.0, 158.0), True)
+    assert ctx.messages[-1] == "Circle: centre (100, 150) mm, r = 10 mm"  # 6-8-10 triangle
+    tool.cancel()
+    sel = SelectTool(ctx)
+    sel.press((30.0, 0.0))
+    sel.move((32.5, -1.0), True)
+    assert ctx.messages[-1] == "Move by \u0394x = 2.5 mm, \u0394y = -1 mm"
+    sel.cancel()
