@@ -77,7 +77,8 @@ def discretize(layout: Layout, outlines: tuple[PartOutline, ...], grid: Grid) ->
     outer_fixed = _outer_fixed(grid)
     free = (cond < 0) & ~outer_fixed
     n_parts = len(layout.parts)
-    edges = ring_edges([(k, r, ring) for k, (p, o) in enumerate(zip(layout.parts, outlines))
+    pairs = enumerate(zip(layout.parts, outlines, strict=True))
+    edges = ring_edges([(k, r, ring) for k, (p, o) in pairs
                         if p.is_conductor for r, ring in enumerate(o.rings)])
     cx = line_crossings(x, y, edges, swap=False)
     cy = line_crossings(y, x, edges, swap=True)
@@ -95,7 +96,7 @@ def conductor_map(layout: Layout, outlines: tuple[PartOutline, ...], x: np.ndarr
                   y: np.ndarray) -> np.ndarray:
     """Index of the conductor part covering each node (boundary included), else -1."""
     cond = np.full((len(y), len(x)), -1, dtype=np.int64)
-    for k, (part, ol) in enumerate(zip(layout.parts, outlines)):
+    for k, (part, ol) in enumerate(zip(layout.parts, outlines, strict=True)):
         if not part.is_conductor:
             continue
         x0, y0, x1, y1 = ol.polygon.bounds
@@ -116,7 +117,7 @@ def permittivity_at(layout: Layout, outlines: tuple[PartOutline, ...], xx: np.nd
     """Relative permittivity at points; nested dielectrics: the inner one wins."""
     eps = np.ones(np.shape(xx))
     diel = [(o.polygon.area, p.permittivity or 1.0, o.polygon)
-            for p, o in zip(layout.parts, outlines) if p.kind == "dielectric"]
+            for p, o in zip(layout.parts, outlines, strict=True) if p.kind == "dielectric"]
     for _, e, poly in sorted(diel, key=lambda t: -t[0]):
         shapely.prepare(poly)
         eps[shapely.contains_xy(poly, xx, yy)] = e
@@ -231,7 +232,7 @@ def _segment_inverse_eps(layout: Layout, outlines: tuple[PartOutline, ...], grid
                          nb_dist: np.ndarray, eps_node: np.ndarray) -> np.ndarray:
     """:math:`\\int ds/\\varepsilon_r` over each node's segment to each neighbour, mm."""
     inv = nb_dist / eps_node[None]
-    diel = [(k, o) for k, (p, o) in enumerate(zip(layout.parts, outlines))
+    diel = [(k, o) for k, (p, o) in enumerate(zip(layout.parts, outlines, strict=True))
             if p.kind == "dielectric"]
     if not diel:
         return inv
@@ -346,10 +347,16 @@ def _assemble(layout: Layout, grid: Grid, cond: np.ndarray, eps_node: np.ndarray
         diag = diag + c
         q = idx[np.clip(fj + dj, 0, ny - 1), np.clip(fi + di, 0, nx - 1)]
         node = (kind == NODE) & (c > 0) & (q >= 0)
-        rows.append(p_idx[node]); cols.append(q[node]); vals.append(-c[node])
+        rows.append(p_idx[node])
+        cols.append(q[node])
+        vals.append(-c[node])
         fixed = (kind >= 0) & (c > 0)
-        grows.append(p_idx[fixed]); gcols.append(kind[fixed]); gvals.append(c[fixed])
-    rows.append(p_idx); cols.append(p_idx); vals.append(diag)
+        grows.append(p_idx[fixed])
+        gcols.append(kind[fixed])
+        gvals.append(c[fixed])
+    rows.append(p_idx)
+    cols.append(p_idx)
+    vals.append(diag)
     A = sp.csr_matrix((np.concatenate(vals), (np.concatenate(rows), np.concatenate(cols))),
                       shape=(n, n))
     G = sp.csr_matrix((np.concatenate(gvals), (np.concatenate(grows), np.concatenate(gcols))),

@@ -6,7 +6,8 @@ curvature, the gap to the nearest other part, the size of the layout) and N the 
 per length of the chosen resolution.  Along each axis the spacing is the lower envelope
 of cones
 
-.. math:: h(x) = \\min\\bigl(h_{max}(x),\\; \\min_p\\, [h_p + g\\,\\max(0, |x - p_x| - B h_p)]\\bigr),
+.. math:: h(x) = \\min\\bigl(h_{max}(x),\\;
+          \\min_p\\, [h_p + g\\,\\max(0, |x - p_x| - B h_p)]\\bigr),
 
 so neighbouring cells differ by at most a factor :math:`1 + g` (g <= 0.2); the cones
 have flat tops ``BAND_CELLS`` cells wide, so the spacing is uniform close to a surface.  Open
@@ -207,7 +208,7 @@ def _gap_to_others(pts: np.ndarray, polys: list, k: int) -> np.ndarray:
     if len(polys) < 2:
         return gap
     p = shapely.points(pts)
-    size = max(b - a for a, b in zip(polys[k].bounds[:2], polys[k].bounds[2:]))
+    size = max(b - a for a, b in zip(polys[k].bounds[:2], polys[k].bounds[2:], strict=True))
     for j, poly in enumerate(polys):
         # parts that touch form a wedge at the contact with no length scale of its own
         if j != k and shapely.distance(polys[k], poly) > 0:

@@ -149,7 +149,8 @@ def hot_spots(tr: SurfaceTrace) -> list[HotSpot]:
             elif over[k]:
                 cur[1] = k
             elif cur is not None:
-                runs.append(tuple(cur)); cur = None
+                runs.append(tuple(cur))
+                cur = None
         if cur is not None:
             runs.append(tuple(cur))
     out = []

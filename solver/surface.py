@@ -145,7 +145,7 @@ def smooth_along(s: np.ndarray, xy: np.ndarray, f: np.ndarray, perimeter: float,
         return _fit(ds, f[idx], f)
     out = f.copy()
     starts = (gaps + 1) % n
-    for a, g in zip(starts, np.roll(gaps, -1)):
+    for a, g in zip(starts, np.roll(gaps, -1), strict=True):
         seg = np.arange(a, a + ((g - a) % n) + 1) % n
         ss = s[seg] + np.where(seg < seg[0], perimeter, 0.0)
         out[seg] = _fit_segment(ss, f[seg], xy[seg], axisymmetric, half, spacing)
