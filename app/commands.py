@@ -187,32 +187,36 @@ class RemovePartsCommand(QUndoCommand):
             self.doc.insert_part(part, index=index, pid=pid)
 
 
-class DuplicatePartsCommand(QUndoCommand):
-    """Copy parts, offset by (dx, dy) mm, under fresh unique names; ``new_ids`` once done."""
+class AddPartsCommand(QUndoCommand):
+    """Add several parts on top, renamed where their names are taken; ``new_ids`` once done."""
 
-    def __init__(self, doc: Document, ids: Iterable[int], dx: float, dy: float) -> None:
-        ids = sorted(ids, key=doc.index)
-        super().__init__(f"Duplicate {_count(ids)}")
+    def __init__(self, doc: Document, parts: Iterable[Part], text: str) -> None:
+        super().__init__(text)
         self.doc = doc
-        self.copies: list[Part] = []
-        taken: set[str] = set()
-        for pid in ids:
-            p = doc.part(pid)
-            name = doc.unique_name(p.name)
-            while name in taken:
-                name = doc.unique_name(name + " 2")
-            taken.add(name)
-            self.copies.append(replace(p, name=name, shape=se.translated(p.shape, dx, dy)))
+        self.parts: list[Part] = []
+        for p in parts:
+            name = doc.unique_name(p.name, taken=[q.name for q in self.parts])
+            self.parts.append(replace(p, name=name))
         self.new_ids: list[int] = []
 
     def redo(self) -> None:
-        ids = self.new_ids or [None] * len(self.copies)
-        pairs = zip(self.copies, ids, strict=True)
+        ids = self.new_ids or [None] * len(self.parts)
+        pairs = zip(self.parts, ids, strict=True)
         self.new_ids = [self.doc.insert_part(p, pid=i) for p, i in pairs]
 
     def undo(self) -> None:
         for pid in reversed(self.new_ids):
             self.doc.remove_part(pid)
+
+
+class DuplicatePartsCommand(AddPartsCommand):
+    """Copy parts, offset by (dx, dy) mm, under fresh unique names."""
+
+    def __init__(self, doc: Document, ids: Iterable[int], dx: float, dy: float) -> None:
+        ids = sorted(ids, key=doc.index)
+        copies = [replace(doc.part(i), shape=se.translated(doc.part(i).shape, dx, dy))
+                  for i in ids]
+        super().__init__(doc, copies, f"Duplicate {_count(ids)}")
 
 
 class ChangeSettingsCommand(QUndoCommand):

@@ -18,7 +18,7 @@ Units as in the layout format: millimetres, volts, C/m (planar) or C (axisymmetr
 from __future__ import annotations
 
 import re
-from collections.abc import Iterator
+from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 
@@ -138,9 +138,9 @@ class Document:
                 return pid
         return None
 
-    def unique_name(self, base: str) -> str:
-        """``base`` if no part has that name, else ``base 2``, ``base 3``, ..."""
-        names = {p.name for p in self._parts.values()}
+    def unique_name(self, base: str, taken: Iterable[str] = ()) -> str:
+        """``base`` if no part (and nothing in ``taken``) has that name, else ``base 2``, ..."""
+        names = {p.name for p in self._parts.values()} | set(taken)
         if base not in names:
             return base
         stem = re.sub(r"\s+\d+$", "", base) or base

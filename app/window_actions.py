@@ -6,16 +6,24 @@ Delete, zoom); the drawing tools have single-letter keys of our own.
 
 from __future__ import annotations
 
+from dataclasses import replace
 from typing import TYPE_CHECKING
 
 from PySide6.QtCore import Qt
-from PySide6.QtGui import QAction, QActionGroup, QKeySequence
+from PySide6.QtGui import QAction, QActionGroup, QGuiApplication, QKeySequence
 from PySide6.QtWidgets import QComboBox, QInputDialog, QLabel, QToolBar
 
-from solver.layout import KINDS
+from solver.layout import KINDS, LayoutError
 
+from . import shape_edit as se
 from .about import show_about
-from .commands import DuplicatePartsCommand, MirrorPartsCommand, RemovePartsCommand
+from .clipboard import parts_from_text, parts_to_text
+from .commands import (
+    AddPartsCommand,
+    DuplicatePartsCommand,
+    MirrorPartsCommand,
+    RemovePartsCommand,
+)
 from .icons import icon
 from .panels.fields import NumberField
 
@@ -68,6 +76,9 @@ def _edit_actions(w: MainWindow) -> dict[str, QAction]:
     redo.setShortcut(QKeySequence(Std.Redo))
     return {
         "undo": undo, "redo": redo,
+        "cut": _action(w, "Cu&t", lambda: copy_parts(w, cut=True), None, Std.Cut),
+        "copy": _action(w, "&Copy", lambda: copy_parts(w), None, Std.Copy),
+        "paste": _action(w, "&Paste", lambda: paste_parts(w), None, Std.Paste),
         "duplicate": _action(w, "D&uplicate", lambda: duplicate(w), "duplicate", "Ctrl+D"),
         "delete": _action(w, "&Delete", lambda: delete(w), "delete", Std.Delete),
         "mirror_v": _action(w, "Mirror &left-right", lambda: mirror(w, True),
@@ -124,6 +135,8 @@ def _menus(w: MainWindow, a: dict[str, QAction]) -> None:
     m.addAction(a["quit"])
     m = bar.addMenu("&Edit")
     m.addActions([a["undo"], a["redo"]])
+    m.addSeparator()
+    m.addActions([a["cut"], a["copy"], a["paste"]])
     m.addSeparator()
     m.addActions([a["duplicate"], a["delete"], a["mirror_v"], a["mirror_h"], a["corner"]])
     m.addSeparator()
@@ -198,6 +211,35 @@ def delete(w: MainWindow) -> None:
         return
     if w.selection.ids:
         w.ctx.push(lambda: RemovePartsCommand(w.doc, w.selection.ids))
+
+
+def copy_parts(w: MainWindow, cut: bool = False) -> None:
+    """Put the selected parts on the clipboard as layout JSON (and delete them for Cut)."""
+    ids = w.selection.ids
+    if not ids:
+        w.show_message("Copy: select the parts to copy first")
+        return
+    QGuiApplication.clipboard().setText(parts_to_text(w.doc.part(i) for i in ids))
+    if cut:
+        w.ctx.push(lambda: RemovePartsCommand(w.doc, ids))
+    w.show_message(f"{'Cut' if cut else 'Copied'} {len(ids)} part(s)")
+
+
+def paste_parts(w: MainWindow) -> None:
+    """Add the parts on the clipboard (one undo step), offset when they would cover
+    identical parts, and select them."""
+    try:
+        parts = parts_from_text(QGuiApplication.clipboard().text())
+    except LayoutError as exc:
+        w.show_message(f"Paste: {exc}")
+        return
+    shapes = {p.shape for _, p in w.doc.parts()}
+    if any(p.shape in shapes for p in parts):
+        d = 5 * w.snapper.grid_mm
+        parts = [replace(p, shape=se.translated(p.shape, d, d)) for p in parts]
+    cmd = w.ctx.push(lambda: AddPartsCommand(w.doc, parts, f"Paste {len(parts)} part(s)"))
+    if isinstance(cmd, AddPartsCommand):
+        w.selection.set(cmd.new_ids)
 
 
 def duplicate(w: MainWindow) -> None:

@@ -22,6 +22,9 @@ def _ids(doc: Document, *names: str) -> list[int]:
 CASES: dict[str, Callable[[Document], c.QUndoCommand]] = {
     "add": lambda d: c.AddPartCommand(d, Part("New", "electrode", Circle((0, 150), 4),
                                               volts=-3000.0)),
+    "add_many": lambda d: c.AddPartsCommand(d, [
+        Part("Ball", "floating", Circle((0, 150), 4), charge=1e-9),
+        Part("Ball", "dielectric", Circle((20, 150), 4), permittivity=2.0)], "Paste"),
     "remove": lambda d: c.RemovePartsCommand(d, _ids(d, "Ball", "Bar", "Lead")),
     "duplicate": lambda d: c.DuplicatePartsCommand(d, _ids(d, "Bar", "Lens"), 5.0, -5.0),
     "move": lambda d: c.MovePartsCommand(d, _ids(d, "Bar", "Plate"), 3.0, 4.0),
@@ -72,6 +75,13 @@ def test_every_command_class_is_covered() -> None:
                and issubclass(v, c.QUndoCommand) and v.__module__ == c.__name__
                and v is not c.ReplacePartsCommand}
     assert classes <= built, classes - built
+
+
+def test_added_parts_get_free_names(qapp) -> None:
+    # DESIGN.md section 2: part names are unique
+    doc = Document(every_shape_layout())
+    QUndoStack().push(CASES["add_many"](doc))
+    assert [p.name for _, p in doc.parts()][-2:] == ["Ball 2", "Ball 3"]
 
 
 def test_nudges_merge_into_one_step(qapp) -> None:

@@ -138,3 +138,27 @@ def test_tool_shortcut_keys(qtbot, win) -> None:  # noqa: ANN001
     assert win.canvas.tool.name == "circle"
     qtbot.keyClick(win.canvas, Qt.Key.Key_S)
     assert win.canvas.tool.name == "select"
+
+
+def test_copy_paste_between_layouts_and_cut(qtbot, win) -> None:  # noqa: ANN001
+    # common practice, no source: copy, cut and paste carry parts whole, one undo step each
+    from PySide6.QtGui import QGuiApplication
+    lens, lead = win.doc.id_of("Lens"), win.doc.id_of("Lead")
+    win.selection.set([lens, lead])
+    win.actions_["copy"].trigger()
+    win.actions_["paste"].trigger()  # over the originals: offset and renamed
+    new = win.selection.ids
+    assert [win.doc.part(i).name for i in new] == ["Lens 2", "Lead 2"]
+    d = 5 * win.snapper.grid_mm
+    assert win.doc.part(new[0]).shape.center == (0.0 + d, 60.0 + d)
+    win.stack.undo()
+    assert win.doc.to_json() == ORIGINAL
+    win.doc.clear()
+    win.actions_["paste"].trigger()  # into an empty layout: where they were
+    assert [p for _, p in win.doc.parts()] == list(every_shape_layout().parts[2:5:2])
+    win.selection.set(win.doc.ids())
+    win.actions_["cut"].trigger()
+    assert len(win.doc) == 0
+    QGuiApplication.clipboard().setText("not parts at all")
+    win.actions_["paste"].trigger()
+    assert len(win.doc) == 0 and "no Stresslens parts" in win.statusBar().currentMessage()
