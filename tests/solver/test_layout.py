@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import copy
 import json
+import math
 from collections.abc import Callable
 from pathlib import Path
 from typing import Any
@@ -397,3 +398,23 @@ def test_written_layout_is_plain_json_text() -> None:
     assert text.endswith("\n")
     obj = json.loads(text)
     assert obj["stresslens_layout"] == 1 and len(obj["parts"]) == 6
+
+
+def test_vertex_count_is_capped() -> None:
+    from solver.layout import MAX_VERTICES
+
+    n = MAX_VERTICES + 1
+    ring = [[math.cos(2 * math.pi * k / n), math.sin(2 * math.pi * k / n)] for k in range(n)]
+    obj = edited(lambda d: rod(d).update(shape={"type": "polygon", "points": ring}))
+    with pytest.raises(LayoutError, match=f"part 'Rod' shape 'points' has {n} points; at most"):
+        parse_layout(obj)
+
+
+def test_part_count_is_capped() -> None:
+    from solver.layout import MAX_PARTS
+
+    many = [{"name": f"Wire {k}", "kind": "electrode", "volts": 0,
+             "shape": {"type": "circle", "center": [3.0 * k, 0], "radius": 1}}
+            for k in range(MAX_PARTS + 1)]
+    with pytest.raises(LayoutError, match=f"layout has {MAX_PARTS + 1} parts; at most"):
+        parse_layout(edited(lambda d: d.update(parts=many)))
