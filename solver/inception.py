@@ -262,6 +262,25 @@ def _clear_of_solids(solution: Solution, traces: list) -> list[np.ndarray]:
     return masks
 
 
+def _with_surface_end(solution: Solution, path: GasPath, part: str) -> GasPath:
+    """The path with its last field value taken from the part's surface trace (the
+    second-order surface field) when a trace sample lies within a grid cell of the end."""
+    end = path.xy_mm[-1]
+    cell = _local_spacing_mm(solution, end)
+    best, E_end = np.inf, None
+    for t in solution.surfaces:
+        if t.part == part and len(t.s_mm):
+            d = np.hypot(*(t.xy_mm - end).T)
+            i = int(np.argmin(d))
+            if d[i] < best:
+                best, E_end = float(d[i]), float(t.E_kV_per_mm[i])
+    if E_end is None or best > cell:
+        return path
+    E = path.E_kV_per_mm.copy()
+    E[-1] = E_end
+    return replace(path, E_kV_per_mm=E)
+
+
 def _reversed(path: GasPath) -> GasPath:
     """The same path run from its other end."""
     s = path.s_mm[-1] - path.s_mm[::-1]
@@ -286,6 +305,8 @@ def estimate_inception_at(solution: Solution, start: tuple[str, np.ndarray, np.n
     path = trace_gas_path(probe, xy, normal, h0, extent, start_field_kV_per_mm=E_surface)
     ends_at, end_volts = _end_volts(solution, path, probe)
     start_volts = _conductor_volts(solution, part)
+    if path.ends_at == "body":
+        path = _with_surface_end(solution, path, probe.names[path.end_body])
     if end_volts is not None and path.E_kV_per_mm[-1] > path.E_kV_per_mm[0]:
         # same field line, same integral: report it from its stressed end
         path, ends_at, part = _reversed(path), f"conductor {part}", probe.names[path.end_body]
@@ -338,6 +359,11 @@ def _least_in_gas(results: list[Inception]) -> Inception:
     solid surface is a different mechanism that this criterion does not cover."""
     in_gas = [r for r in results if not r.ends_at.startswith("solid insulation")]
     best = min(in_gas or results, key=lambda inc: inc.scale)
+    if not in_gas:
+        note = ("every traced field line runs into solid insulation: the figure covers only "
+                "the gas before the solid surface; discharge along the surface (creepage, "
+                "triple junction) is not estimated here and may start lower")
+        return replace(best, notes=best.notes + (note,))
     solid = sorted({f"{r.start_part} into {r.ends_at.removeprefix('solid insulation ')} "
                     f"after {r.s_mm[-1]:.3g} mm" for r in results
                     if r.ends_at.startswith("solid insulation") and r.scale < best.scale})

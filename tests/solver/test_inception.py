@@ -440,6 +440,26 @@ def test_description_lines_carry_units():
     assert "kV on Core" in lines[0] and "mm from Core to conductor Sheath" in lines[1]
     assert "kV/mm" in lines[2] and "bar" in lines[2]
     assert lines[3].startswith("Field utilisation")
+    assert lines[-1] == INCEPTION_CAUTION
+
+
+def test_paths_into_solid_insulation_are_noted_not_taken():
+    # the streamer criterion is for avalanches in the gas (Kuffel et al. 2000, from memory);
+    # a field line that runs into a solid after microns (a triple junction) must not set
+    # the layout's figure, but the user must hear of it
+    from dataclasses import replace
+
+    from solver.inception import _least_in_gas, estimate_inception
+
+    sol = analytic_coax_solution(1.0, 50.0, 20000.0)
+    gas = estimate_inception(sol, probe=coax_probe(1.0, 50.0, 20000.0, SOL_NAMES))
+    solid = replace(gas, scale=0.1, ends_at="solid insulation Board",
+                    s_mm=np.array([0.0, 0.003]))
+    best = _least_in_gas([solid, gas])
+    assert best.scale == gas.scale
+    assert "Core into Board after 0.003 mm" in best.notes[-1]
+    only = _least_in_gas([solid])
+    assert only.scale == 0.1 and "every traced field line runs into solid" in only.notes[-1]
 
 
 @pytest.mark.parametrize("a_mm", [0.5, 2.0, 10.0, 50.0])

@@ -12,11 +12,11 @@ from solver.inception import estimate_inception, inception_to_json
 from solver.layout import parse_layout
 
 
-def sphere_gap_layout(D_mm: float, s_mm: float):
+def sphere_gap_layout(D_mm: float, s_mm: float, resolution: str = "draft"):
     """Two spheres of diameter D on the axis, gap s: upper one at 1 kV, lower one earthed."""
     a = D_mm / 2
     return parse_layout({
-        "stresslens_layout": 1, "symmetry": "axisymmetric", "resolution": "draft",
+        "stresslens_layout": 1, "symmetry": "axisymmetric", "resolution": resolution,
         "parts": [
             {"name": "HV sphere", "kind": "electrode", "volts": 1000.0,
              "shape": {"type": "circle", "center": [0, 0], "radius": a}},
@@ -48,7 +48,9 @@ def test_solved_sphere_gap_against_the_standard_table(D_mm, s_mm, table_kV):
 def test_solved_sphere_gap_utilisation_factor(D_mm, s_mm, eta):
     # REFERENCES section 1.7 (b): exact eta = U/(s E_max) of a one-earthed sphere gap from
     # the image series (Kelvin's construction); the path's mean over peak field must match
-    sol = solve(sphere_gap_layout(D_mm, s_mm), estimate_error=False, capacitance=False)
+    # (normal grid: the draft grid's peak field is about 2 % off by design)
+    sol = solve(sphere_gap_layout(D_mm, s_mm, "normal"), estimate_error=False,
+                capacitance=False)
     assert estimate_inception(sol).utilisation == pytest.approx(eta, rel=0.01)
 
 
