@@ -32,11 +32,11 @@ from .layout import Layout, LayoutError, Resolution
 
 # cells per local length, growth per cell, cells across the region of interest
 RESOLUTION_SETTINGS: dict[str, tuple[float, float, float]] = {
-    "draft": (7.0, 0.20, 20.0),
+    "draft": (8.0, 0.20, 20.0),
     "normal": (20.0, 0.12, 40.0),
     "fine": (40.0, 0.08, 64.0),
 }
-BAND_BY_RESOLUTION = {"draft": 2.0, "normal": 6.0, "fine": 8.0}
+BAND_BY_RESOLUTION = {"draft": 3.0, "normal": 6.0, "fine": 8.0}
 BAND_CELLS = 6.0
 """Cells of uniform spacing kept on each side of an outline before the grid grows:
 growth right at a surface costs the surface field its second order."""
