@@ -68,6 +68,7 @@ class Canvas(QGraphicsView):
         self._space = False
         self._left_down = False
         self._ruler_cache: tuple[tuple, QPixmap] | None = None
+        self._auto_fit = True
         self._setup_view()
         self._connect_model()
         self._rebuild()
@@ -198,6 +199,7 @@ class Canvas(QGraphicsView):
         new = self.px_per_mm() * factor
         if not 1e-3 <= new <= 1e5:
             return
+        self._auto_fit = False
         anchor = about if about is not None else QPointF(self.viewport().rect().center())
         before = self.mapToScene(anchor.toPoint())
         self.scale(factor, factor)
@@ -212,6 +214,7 @@ class Canvas(QGraphicsView):
 
     def pan_pixels(self, dx: int, dy: int) -> None:
         """Move the content by (dx, dy) screen pixels (exactly, through the scroll bars)."""
+        self._auto_fit = False
         h, v = self.horizontalScrollBar(), self.verticalScrollBar()
         h.setValue(h.value() - dx)
         v.setValue(v.value() - dy)
@@ -219,6 +222,7 @@ class Canvas(QGraphicsView):
 
     def zoom_to_fit(self) -> None:
         """Show every part with a margin (an area 200 mm wide about the origin when empty)."""
+        self._auto_fit = True
         boxes = [se.bounds(p.shape) for _, p in self.doc.parts()]
         if boxes:
             x0 = min(b[0] for b in boxes)
@@ -253,6 +257,8 @@ class Canvas(QGraphicsView):
 
     def resizeEvent(self, event) -> None:  # noqa: ANN001
         super().resizeEvent(event)
+        if self._auto_fit:  # until the user zooms or pans, the view keeps fitting the parts
+            self.zoom_to_fit()
         self.viewport().update()
 
     # ------------------------------------------------------------------ painting

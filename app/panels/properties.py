@@ -96,7 +96,10 @@ class PropertiesPanel(QWidget):
     def _show_shape(self, shape: Shape) -> None:
         key = (self.pid, *form_key(shape))
         if key != self._shape_key or self.shape_form is None:
-            if self.shape_form is not None:
+            if self.shape_form is not None:  # out of the layout now, freed later
+                self.shape_layout.removeWidget(self.shape_form)
+                self.shape_form.hide()
+                self.shape_form.setParent(None)
                 self.shape_form.deleteLater()
             self.shape_form = ShapeForm(shape, self._set_shape, self.status)
             self.shape_layout.addWidget(self.shape_form)

@@ -216,3 +216,20 @@ def test_drawing_tools_show_where_a_click_snaps(qtbot, tmp_path) -> None:  # noq
     assert w.canvas.preview_item.snap == ((-20.0, 10.0), "vertex")
     qtbot.mouseMove(w.canvas.viewport(), px(w, 95.0, -45.0))  # open canvas: grid, no mark
     assert w.canvas.preview_item.snap is None
+
+
+def test_a_new_window_fits_its_parts_once_shown(qtbot, tmp_path) -> None:  # noqa: ANN001
+    # common practice, no source: a layout opens with all its parts in view
+    from PySide6.QtCore import QSettings
+
+    from app.main_window import MainWindow
+    w = MainWindow(every_shape_layout(), settings=QSettings(
+        str(tmp_path / "s.ini"), QSettings.Format.IniFormat))
+    qtbot.addWidget(w)
+    w.resize(1000, 700)
+    w.show()
+    qtbot.waitExposed(w)
+    vp = w.canvas.viewport().rect()
+    for x, y in [(-60.0, -80.0), (120.0, 20.0), (0.0, 65.0)]:  # corners of the parts' extent
+        assert vp.contains(px(w, x, y)), (x, y)
+    assert w.canvas.px_per_mm() > 1.5

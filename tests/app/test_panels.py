@@ -162,3 +162,12 @@ def test_copy_paste_between_layouts_and_cut(qtbot, win) -> None:  # noqa: ANN001
     QGuiApplication.clipboard().setText("not parts at all")
     win.actions_["paste"].trigger()
     assert len(win.doc) == 0 and "no Stresslens parts" in win.statusBar().currentMessage()
+
+
+def test_properties_show_one_shape_form_at_a_time(win) -> None:  # noqa: ANN001
+    # common practice, no source: the panel shows the selected part's fields only
+    from app.panels.shape_form import ShapeForm
+    for name in ("Bar", "Ball", "Lens", "Plate", "Lead", "Bar"):
+        win.selection.set([win.doc.id_of(name)])
+    forms = win.properties_panel.shape_box.findChildren(ShapeForm)
+    assert len(forms) == 1 and forms[0] is win.properties_panel.shape_form
