@@ -21,7 +21,7 @@ from . import shape_edit as se
 from .canvas_grid import draw_grid, draw_rulers, grid_steps
 from .document import Document
 from .hit_test import part_at
-from .items import PartItem
+from .items import BoundaryItem, PartItem
 from .preview_item import PreviewItem
 from .selection import Selection
 from .tools import TOOL_CLASSES, Tool, ToolContext
@@ -60,6 +60,8 @@ class Canvas(QGraphicsView):
         self.preview_item.setZValue(20.0)
         self.scene_.addItem(self.preview_item)
         self.items_by_id: dict[int, PartItem] = {}
+        self.boundary_item = BoundaryItem()
+        self.scene_.addItem(self.boundary_item)
         self.tools: dict[str, Tool] = {cls.name: cls(ctx) for cls in TOOL_CLASSES}
         for tool in self.tools.values():
             tool.preview_changed.connect(self._on_preview_changed)
@@ -118,6 +120,7 @@ class Canvas(QGraphicsView):
         for pid in self.doc.ids():
             self._new_item(pid)
         self._restyle_all()
+        self.boundary_item.set_boundary(self.doc.settings.boundary)
         self.zoom_to_fit()
 
     def _restyle_all(self) -> None:
@@ -156,6 +159,7 @@ class Canvas(QGraphicsView):
         self._on_preview_changed()
 
     def _on_settings_changed(self) -> None:
+        self.boundary_item.set_boundary(self.doc.settings.boundary)
         self.resetCachedContent()  # the background shows the axis of symmetry
         self.viewport().update()
 
@@ -224,6 +228,9 @@ class Canvas(QGraphicsView):
         """Show every part with a margin (an area 200 mm wide about the origin when empty)."""
         self._auto_fit = True
         boxes = [se.bounds(p.shape) for _, p in self.doc.parts()]
+        b = self.doc.settings.boundary
+        if b.type == "box" and b.min is not None and b.max is not None:
+            boxes.append((*b.min, *b.max))
         if boxes:
             x0 = min(b[0] for b in boxes)
             y0 = min(b[1] for b in boxes)

@@ -8,14 +8,20 @@ Pens are cosmetic: outlines are as thin on screen at every zoom.
 from __future__ import annotations
 
 from PySide6.QtCore import QPointF, QRectF, Qt
-from PySide6.QtGui import QBrush, QColor, QFont, QPainter, QPainterPath, QPen
-from PySide6.QtWidgets import QGraphicsItem, QGraphicsPathItem, QStyleOptionGraphicsItem, QWidget
+from PySide6.QtGui import QBrush, QColor, QFont, QPainter, QPainterPath, QPen, QTransform
+from PySide6.QtWidgets import (
+    QGraphicsItem,
+    QGraphicsPathItem,
+    QGraphicsRectItem,
+    QStyleOptionGraphicsItem,
+    QWidget,
+)
 
-from solver.layout import Part
+from solver.layout import Boundary, Part
 
 from . import palette
 from . import shape_edit as se
-from .units import part_value_text
+from .units import format_volts, part_value_text
 
 
 def shape_path(part: Part) -> tuple[QPainterPath, bool]:
@@ -137,3 +143,37 @@ class PartItem(QGraphicsPathItem):
             fill = QColor(fill.red(), fill.green(), fill.blue(), 70)
         self.setPen(pen)
         self.setBrush(QBrush(fill))
+
+
+class BoundaryItem(QGraphicsRectItem):
+    """The outer box of a layout with a box boundary (hidden for an open boundary).
+
+    A grounded (fixed-potential) box is drawn as a conductor outline, insulating walls
+    as a grey dash-dot line; a label in the top-left corner says which.
+    """
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.setZValue(-1.0)
+        self.setAcceptedMouseButtons(Qt.MouseButton.NoButton)
+        self.setBrush(Qt.BrushStyle.NoBrush)
+        self.label = PartLabelItem(self)
+
+    def set_boundary(self, b: Boundary) -> None:
+        if b.type != "box" or b.min is None or b.max is None:
+            self.hide()
+            return
+        self.setRect(QRectF(QPointF(*b.min), QPointF(*b.max)).normalized())
+        fixed = b.volts is not None
+        pen = QPen(palette.ELECTRODE_LINE if fixed else palette.AXIS_OF_SYMMETRY, 1.6,
+                   Qt.PenStyle.DashLine if fixed else Qt.PenStyle.DashDotLine)
+        pen.setCosmetic(True)
+        self.setPen(pen)
+        text = (f"Boundary box at {format_volts(b.volts)}" if fixed
+                else "Boundary box: insulating walls")
+        self.label.set_text([text])
+        lab = self.label.boundingRect()
+        self.label.setPos(QPointF(b.min[0], b.max[1]))
+        self.label.setTransform(QTransform.fromTranslate(lab.width() / 2 + 4,
+                                                         lab.height() / 2 + 4))
+        self.show()

@@ -58,6 +58,7 @@ class TextField(QLineEdit):
     def show_text(self, text: str) -> None:
         with QSignalBlocker(self):
             self.setText(text)
+            self.setCursorPosition(0)  # a long title shows its beginning
         self._shown = text
 
     def _commit(self) -> None:

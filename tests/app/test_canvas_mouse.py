@@ -233,3 +233,18 @@ def test_a_new_window_fits_its_parts_once_shown(qtbot, tmp_path) -> None:  # noq
     for x, y in [(-60.0, -80.0), (120.0, 20.0), (0.0, 65.0)]:  # corners of the parts' extent
         assert vp.contains(px(w, x, y)), (x, y)
     assert w.canvas.px_per_mm() > 1.5
+
+
+def test_boundary_box_is_drawn_and_follows_the_settings(qtbot, tmp_path) -> None:  # noqa: ANN001
+    # DESIGN.md section 2: a box boundary is grounded (volts) or insulating (volts null)
+    from dataclasses import replace as dc_replace
+
+    from solver.layout import Boundary
+    w = open_window(qtbot, tmp_path, every_shape_layout())
+    item = w.canvas.boundary_item
+    assert item.isVisible() and item.rect().getCoords() == (-200.0, -200.0, 200.0, 200.0)
+    assert "0 V" in item.label.lines[0]
+    w.doc.update_settings(boundary=dc_replace(w.doc.settings.boundary, volts=None))
+    assert "insulating" in item.label.lines[0]
+    w.doc.update_settings(boundary=Boundary())
+    assert not item.isVisible()
