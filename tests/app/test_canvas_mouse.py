@@ -230,9 +230,11 @@ def test_a_new_window_fits_its_parts_once_shown(qtbot, tmp_path) -> None:  # noq
     w.show()
     qtbot.waitExposed(w)
     vp = w.canvas.viewport().rect()
-    for x, y in [(-60.0, -80.0), (120.0, 20.0), (0.0, 65.0)]:  # corners of the parts' extent
+    # the extent is the 400 mm boundary box around the parts: all of it in view, filling it
+    for x, y in [(-200.0, -200.0), (200.0, 200.0)]:
         assert vp.contains(px(w, x, y)), (x, y)
-    assert w.canvas.px_per_mm() > 1.5
+    span = px(w, 200.0, 200.0) - px(w, -200.0, -200.0)
+    assert span.x() >= 0.6 * vp.width() or -span.y() >= 0.6 * vp.height()
 
 
 def test_boundary_box_is_drawn_and_follows_the_settings(qtbot, tmp_path) -> None:  # noqa: ANN001
