@@ -33,7 +33,7 @@ if TYPE_CHECKING:
 TOOL_KEYS = {"select": ("select", "S"), "vertex": ("vertex", "E"),
              "rectangle": ("rectangle", "B"), "circle": ("circle", "C"),
              "ellipse": ("ellipse", "L"), "polygon": ("polygon", "P"), "path": ("path", "W"),
-             "hole": ("hole", "H")}
+             "hole": ("hole", "H"), "probe": ("probe", "M")}
 Std = QKeySequence.StandardKey
 
 
