@@ -3,9 +3,9 @@
 Field lines start on the conductor outlines where the surface charge is positive, at
 equal steps of cumulative charge :math:`\\int \\varepsilon_r E_n\\,dl` (times
 :math:`2\\pi r` in axisymmetric layouts), so their density shows the field strength.
-Each is traced along :math:`\\hat E = E/|E|` with Heun's method (step half the local
-grid spacing) until it reaches a conductor, leaves the region around the parts or the
-field vanishes.
+Each is traced along :math:`\\hat E = E/|E|` with Heun's method (step 0.6 of the
+larger local grid spacing) until it reaches a conductor, leaves the region around the
+parts or the field vanishes.
 """
 
 from __future__ import annotations
@@ -82,7 +82,7 @@ def field_lines(solution: Solution, n_lines: int = 40, max_steps: int = 4000
     hx = np.diff(x)
     hy = np.diff(y)
     emax = float(np.hypot(ex, ey).max()) or 1.0
-    paths = [[q.copy()] for q in p]
+    hist_idx, hist_pts = [np.arange(len(p))], [p.copy()]
     alive = np.ones(len(p), bool)
 
     def direction(q: np.ndarray, s: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -98,7 +98,7 @@ def field_lines(solution: Solution, n_lines: int = 40, max_steps: int = 4000
         q = p[idx]
         ix = np.clip(np.searchsorted(x, q[:, 0]) - 1, 0, len(hx) - 1)
         iy = np.clip(np.searchsorted(y, q[:, 1]) - 1, 0, len(hy) - 1)
-        h = 0.5 * np.minimum(hx[ix], hy[iy])
+        h = 0.6 * np.maximum(hx[ix], hy[iy])
         d1, mag = direction(q, sign[idx])
         d2, _ = direction(q + h[:, None] * d1, sign[idx])
         q_new = q + 0.5 * h[:, None] * (d1 + d2)
@@ -109,7 +109,12 @@ def field_lines(solution: Solution, n_lines: int = 40, max_steps: int = 4000
               (cond[np.maximum(jy - 1, 0), jx] >= 0)
         out = ((q_new[:, 0] < box[0]) | (q_new[:, 0] > box[2]) | (q_new[:, 1] < box[1])
                | (q_new[:, 1] > box[3]) | (mag < 1e-6 * emax))
-        for k, n in enumerate(idx):
-            paths[n].append(q_new[k].copy())
+        hist_idx.append(idx)
+        hist_pts.append(q_new)
         alive[idx[hit | out]] = False
-    return [np.array(pp) for pp in paths if len(pp) > 2]
+    owner = np.concatenate(hist_idx)
+    pts = np.vstack(hist_pts)
+    order = np.argsort(owner, kind="stable")
+    owner, pts = owner[order], pts[order]
+    cuts = np.flatnonzero(np.diff(owner)) + 1
+    return [line for line in np.split(pts, cuts) if len(line) > 2]
