@@ -41,7 +41,7 @@ def parts_in_box(doc: Document, a: Point, b: Point) -> list[int]:
 def vertex_at(shape: Shape, pt: Point, tol_mm: float) -> se.Ref | None:
     """The vertex or handle of ``shape`` nearest ``pt`` within ``tol_mm``, or None."""
     best, best_d = None, tol_mm
-    for ref, v in se.vertices(shape):
+    for ref, v in se.handles(shape):
         d = math.hypot(v[0] - pt[0], v[1] - pt[1])
         if d <= best_d:
             best, best_d = ref, d

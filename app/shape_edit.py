@@ -89,13 +89,19 @@ def bounds(shape: Shape) -> tuple[float, float, float, float]:
 
 
 def as_polygon(shape: Shape) -> Polygon:
-    """The same region as a :class:`Polygon` (rectangles exactly; curves as fine chords)."""
+    """The same region as a :class:`Polygon` (rectangles and circles exactly; ellipses and
+    wires as fine chords)."""
     if isinstance(shape, Polygon):
         return shape
     if isinstance(shape, Rect):
         (x0, y0), (x1, y1) = shape.min, shape.max
         return Polygon(points=((x0, y0), (x1, y0), (x1, y1), (x0, y1)),
                        corner_radius=shape.corner_radius)
+    if isinstance(shape, Circle):
+        # a square of side 2r with corner radius r is exactly the circle, and stays editable
+        (cx, cy), r = shape.center, shape.radius
+        return Polygon(points=((cx - r, cy - r), (cx + r, cy - r), (cx + r, cy + r),
+                               (cx - r, cy + r)), corner_radius=r)
     reg = region(shape)
     if reg is None:
         raise EditError("the shape is not a valid region")
@@ -133,6 +139,27 @@ def vertices(shape: Shape) -> list[tuple[Ref, Point]]:
                 ((0, 1), (c[0] - b * u[1], c[1] + b * u[0]))]
     rings = _rings(shape)
     return [((k, i), p) for k, ring in enumerate(rings) for i, p in enumerate(ring)]
+
+
+DENSE_RING = 64
+"""Rings with more vertices than this (circular holes, ellipses made polygons) are
+traced curves: their vertices are not offered as handles."""
+
+
+def handles(shape: Shape) -> list[tuple[Ref, Point]]:
+    """The vertices worth dragging: :func:`vertices` less those of densely traced rings."""
+    if isinstance(shape, (Circle, Ellipse)):
+        return vertices(shape)
+    rings = _rings(shape)
+    return [((k, i), p) for k, ring in enumerate(rings) if len(ring) <= DENSE_RING
+            for i, p in enumerate(ring)]
+
+
+def circle_ring(center: Point, radius: float) -> tuple[Point, ...]:
+    """A circle traced as finely as the solver traces curved outlines (mm)."""
+    reg = region(Circle(center=center, radius=radius))
+    assert reg is not None
+    return tuple((float(x), float(y)) for x, y in reg.exterior.coords[:-1])
 
 
 def edges(shape: Shape) -> list[tuple[Ref, Point, Point]]:

@@ -36,7 +36,7 @@ class Snapper:
         for pid, part in self.doc.parts():
             if pid in exclude:
                 continue
-            for _, v in se.vertices(part.shape):
+            for _, v in se.handles(part.shape):
                 d = math.hypot(v[0] - pt[0], v[1] - pt[1])
                 if d <= best_d:
                     best, best_d = v, d

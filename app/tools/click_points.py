@@ -2,8 +2,11 @@
 
 from __future__ import annotations
 
+import math
+
 from solver.layout import Path, Point, Polygon
 
+from .. import shape_edit as se
 from ..commands import AddPartCommand, CutHoleCommand
 from ..hit_test import part_at
 from .base import Preview, Tool
@@ -101,26 +104,31 @@ class HoleTool(ClickPointsTool):
     """Cut a hole: click its corners inside a part (or drag a rectangle inside it)."""
 
     name, label = "hole", "Hole"
-    hint = "click the hole's corners inside a part, or drag a rectangle; Enter closes"
+    hint = ("click the hole's corners inside a part, or drag a rectangle (shift-drag: a "
+            "round hole from its centre); Enter closes")
 
     def __init__(self, ctx) -> None:  # noqa: ANN001 - ToolContext
         super().__init__(ctx)
         self.drag_from: Point | None = None
+        self.round = False
 
     def press(self, pt: Point, shift: bool = False) -> None:
         if not self.points:
             self.drag_from = self.ctx.snap(pt)
+            self.round = shift
         super().press(pt, shift)
 
     def release(self, pt: Point) -> None:
         a, self.drag_from = self.drag_from, None
         b = self.ctx.snap(pt)
-        if a is None or len(self.points) != 1 or abs(b[0] - a[0]) < 1e-9 \
-                or abs(b[1] - a[1]) < 1e-9 or max(abs(b[0] - a[0]), abs(b[1] - a[1])) \
-                < self.ctx.tol_mm:
+        if a is None or len(self.points) != 1 or \
+                max(abs(b[0] - a[0]), abs(b[1] - a[1])) < self.ctx.tol_mm:
             return
         self.cancel()
-        self.commit(((a[0], a[1]), (b[0], a[1]), (b[0], b[1]), (a[0], b[1])))
+        if self.round:  # shift-drag: a circular hole from its centre out to its rim
+            self.commit(se.circle_ring(a, math.hypot(b[0] - a[0], b[1] - a[1])))
+        elif abs(b[0] - a[0]) > 1e-9 and abs(b[1] - a[1]) > 1e-9:
+            self.commit(((a[0], a[1]), (b[0], a[1]), (b[0], b[1]), (a[0], b[1])))
 
     def commit(self, pts: tuple[Point, ...]) -> None:
         cx = sum(p[0] for p in pts) / len(pts)

@@ -140,7 +140,7 @@ class VertexTool(Tool):
 
     def preview(self) -> Preview | None:
         handles = tuple(h for pid in self.ctx.selection.ids if pid in self.ctx.doc
-                        for h in se.vertices(self.ctx.doc.part(pid).shape))
+                        for h in se.handles(self.ctx.doc.part(pid).shape))
         active = self.drag[2] if self.drag and self.drag[0] == "vertex" else None
         if active is None and self.current is not None:
             active = self.current[1]

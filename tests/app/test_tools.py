@@ -146,6 +146,9 @@ def test_hole_by_clicks_and_by_drag(qapp) -> None:
     drag(HoleTool(ctx), (25.0, -2.0), (35.0, 2.0))
     ball = ctx.doc.part(ctx.doc.id_of("Ball")).shape
     assert isinstance(ball, Polygon) and len(ball.holes) == 1
+    # from memory: a square of side 2r rounded with radius r is the circle of radius r
+    assert ball.points == ((24.0, -6.0), (36.0, -6.0), (36.0, 6.0), (24.0, 6.0))
+    assert ball.corner_radius == 6.0
     drag(HoleTool(ctx), (150.0, 150.0), (160.0, 160.0))
     assert "inside" in ctx.messages[-1]
 
@@ -296,3 +299,22 @@ def test_sizes_are_shown_while_drawing_and_moving(qapp) -> None:
     sel.move((32.5, -1.0), True)
     assert ctx.messages[-1] == "Move by \u0394x = 2.5 mm, \u0394y = -1 mm"
     sel.cancel()
+
+
+def test_shift_drag_cuts_a_round_hole_making_a_coaxial_ring(qapp) -> None:
+    # from memory: an annulus of radii R and r has area pi (R^2 - r^2); the traced
+    # circles lose a relative 1 - cos(pi/560) ~ 1.6e-5 of it, far below the 1e-4 allowed
+    from app.shape_edit import region
+    ctx = make_ctx(Layout(parts=(Part("Sheath", "electrode", Circle((0.0, 0.0), 20.0),
+                                      volts=0.0),)))
+    tool = HoleTool(ctx)
+    tool.press((0.0, 0.0), shift=True)
+    tool.move((14.0, 0.0), True)
+    tool.release((14.0, 0.0))
+    sheath = ctx.doc.part(ctx.doc.ids()[0]).shape
+    assert isinstance(sheath, Polygon) and len(sheath.holes) == 1
+    assert region(sheath).area == pytest.approx(math.pi * (20.0**2 - 14.0**2), rel=1e-4)
+    assert ctx.doc.problem() is None
+    # the traced hole offers no handles; the four outer corners do
+    ctx.selection.set(ctx.doc.ids())
+    assert len(VertexTool(ctx).preview().handles) == 4
