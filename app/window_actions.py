@@ -10,7 +10,7 @@ from dataclasses import replace
 from typing import TYPE_CHECKING
 
 from PySide6.QtCore import Qt
-from PySide6.QtGui import QAction, QActionGroup, QGuiApplication, QKeySequence
+from PySide6.QtGui import QAction, QActionGroup, QGuiApplication, QIcon, QKeySequence
 from PySide6.QtWidgets import QComboBox, QInputDialog, QLabel, QToolBar
 
 from solver.layout import KINDS, LayoutError
@@ -40,7 +40,7 @@ Std = QKeySequence.StandardKey
 def _action(w: MainWindow, text: str, slot, icon_name: str | None = None,  # noqa: ANN001
             key: QKeySequence | QKeySequence.StandardKey | str | None = None,
             tip: str | None = None) -> QAction:
-    a = QAction(icon(icon_name) if icon_name else icon("none"), text, w)
+    a = QAction(icon(icon_name) if icon_name else QIcon(), text, w)
     if key is not None:
         a.setShortcut(QKeySequence(key))
     a.setToolTip(tip or text.replace("&", "").replace("\u2026", ""))
@@ -63,7 +63,7 @@ def _file_actions(w: MainWindow) -> dict[str, QAction]:
         "open": _action(w, "&Open\u2026", w.files.open, "open", Std.Open),
         "save": _action(w, "&Save", w.files.save, "save", Std.Save),
         "save_as": _action(w, "Save &as\u2026", w.files.save_as, "save_as", Std.SaveAs),
-        "quit": _action(w, "&Quit", w.close, None, Std.Quit),
+        "quit": _action(w, "&Quit", w.close, "quit", Std.Quit),
     }
 
 
@@ -76,9 +76,9 @@ def _edit_actions(w: MainWindow) -> dict[str, QAction]:
     redo.setShortcut(QKeySequence(Std.Redo))
     return {
         "undo": undo, "redo": redo,
-        "cut": _action(w, "Cu&t", lambda: copy_parts(w, cut=True), None, Std.Cut),
-        "copy": _action(w, "&Copy", lambda: copy_parts(w), None, Std.Copy),
-        "paste": _action(w, "&Paste", lambda: paste_parts(w), None, Std.Paste),
+        "cut": _action(w, "Cu&t", lambda: copy_parts(w, cut=True), "cut", Std.Cut),
+        "copy": _action(w, "&Copy", lambda: copy_parts(w), "copy", Std.Copy),
+        "paste": _action(w, "&Paste", lambda: paste_parts(w), "paste", Std.Paste),
         "duplicate": _action(w, "D&uplicate", lambda: duplicate(w), "duplicate", "Ctrl+D"),
         "delete": _action(w, "&Delete", lambda: delete(w), "delete", Std.Delete),
         "mirror_v": _action(w, "Mirror &left-right", lambda: mirror(w, True),
@@ -89,7 +89,7 @@ def _edit_actions(w: MainWindow) -> dict[str, QAction]:
                             "Mirror the selection about a horizontal line through its centre"),
         "corner": _action(w, "Corner &radius\u2026", lambda: corner_radius(w), "corner_radius",
                           "Shift+R", "Round the corner at the current vertex (Edit outline)"),
-        "select_all": _action(w, "Select &all", lambda: w.selection.set(w.doc.ids()), None,
+        "select_all": _action(w, "Select &all", lambda: w.selection.set(w.doc.ids()), "select_all",
                               Std.SelectAll),
     }
 

@@ -97,3 +97,19 @@ def test_about_box_carries_the_caution(qtbot, tmp_path: Path, monkeypatch) -> No
     for word in ("design guidance", "surface condition", "humidity", "pressure",
                  "contamination", "3D effects", "local codes", "licensed practice"):
         assert word in text, word
+
+
+def test_every_action_has_one_of_our_icons(qtbot, tmp_path: Path) -> None:  # noqa: ANN001
+    # common practice, no source: every command shows an icon; each SVG draws something
+    from editor_window import open_window
+    from PySide6.QtGui import QColor
+
+    from app.icons import icon, icon_names
+    w = open_window(qtbot, tmp_path)
+    assert all(not a.icon().isNull() for a in w.actions_.values()), \
+        [k for k, a in w.actions_.items() if a.icon().isNull()]
+    for name in icon_names():
+        img = icon(name).pixmap(32, 32).toImage()
+        ink = sum(img.pixelColor(x, y).alpha() > 0 for x in range(32) for y in range(32))
+        assert 20 < ink < 32 * 32, name
+        assert img.pixelColor(0, 0) == QColor(0, 0, 0, 0) or name == "stresslens", name
