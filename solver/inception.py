@@ -27,6 +27,7 @@ import numpy as np
 from .air import SCHUMANN_C, STREAMER_K, equivalent_pressure_bar
 from .inception_path import FieldProbe, GasPath, trace_gas_path
 from .inception_probe import gas_field_sampler, probe_from_solution
+from .inception_starts import Start, start_points, surface_start
 from .layout import PeekLimit
 from .streamer import (
     InceptionError,
@@ -208,60 +209,6 @@ def _notes(solution: Solution, start_part: str, ends_at: str) -> tuple[str, ...]
     return tuple(notes)
 
 
-def _start_points(solution: Solution) -> list[tuple[str, np.ndarray, np.ndarray, float]]:
-    """(part, point mm, outward normal, surface field kV/mm) where paths begin: each
-    conductor's peak, its peak away from solid insulation, and each hot spot on it."""
-    conductors = {p.name for p in solution.layout.parts if p.is_conductor}
-    traces = [t for t in solution.surfaces if t.part in conductors and len(t.E_kV_per_mm)]
-    clear = _clear_of_solids(solution, traces)
-    picks: set[tuple[int, int]] = set()
-    for name in conductors:
-        for masks in (None, clear):
-            best = _peak_index(traces, name, masks)
-            if best is not None:
-                picks.add(best)
-    for spot in solution.hot_spots:
-        dist = [(float(np.min(np.hypot(*(t.xy_mm - spot.at_mm).T))), k)
-                for k, t in enumerate(traces) if t.part == spot.part]
-        if dist:
-            k = min(dist)[1]
-            picks.add((k, int(np.argmin(np.hypot(*(traces[k].xy_mm - spot.at_mm).T)))))
-    return [(traces[k].part, traces[k].xy_mm[i], traces[k].normal[i],
-             float(traces[k].E_kV_per_mm[i])) for k, i in sorted(picks)]
-
-
-def _peak_index(traces: list, name: str,
-                masks: list[np.ndarray] | None) -> tuple[int, int] | None:
-    """(trace, sample) of the highest field on a part, among masked samples if given."""
-    best, where = -1.0, None
-    for k, t in enumerate(traces):
-        if t.part != name:
-            continue
-        E = t.E_kV_per_mm if masks is None else np.where(masks[k], t.E_kV_per_mm, -1.0)
-        i = int(np.argmax(E))
-        if E[i] > best:
-            best, where = float(E[i]), (k, i)
-    return where if best >= 0.0 else None
-
-
-def _clear_of_solids(solution: Solution, traces: list) -> list[np.ndarray]:
-    """Per trace, the samples farther than three local sample spacings from any dielectric."""
-    import shapely
-
-    from .geometry import part_outline
-
-    solids = [part_outline(p).polygon for p in solution.layout.parts if p.kind == "dielectric"]
-    if not solids:
-        return [np.ones(len(t.E_kV_per_mm), bool) for t in traces]
-    union = shapely.union_all(solids)
-    masks = []
-    for t in traces:
-        spacing = np.gradient(t.s_mm) if len(t.s_mm) > 1 else np.zeros(len(t.s_mm))
-        d = shapely.distance(union, shapely.points(t.xy_mm))
-        masks.append(d > 3.0 * spacing)
-    return masks
-
-
 def _with_surface_end(solution: Solution, path: GasPath, part: str) -> GasPath:
     """The path with its last field value taken from the part's surface trace (the
     second-order surface field) when a trace sample lies within a grid cell of the end."""
@@ -288,17 +235,19 @@ def _reversed(path: GasPath) -> GasPath:
                    path.end_body)
 
 
-def estimate_inception_at(solution: Solution, start: tuple[str, np.ndarray, np.ndarray, float],
+def estimate_inception_at(solution: Solution, start: Start | tuple[float, float],
                           pressure_kPa: float | None = None, temperature_C: float | None = None,
                           K: float = STREAMER_K, probe: FieldProbe | None = None) -> Inception:
     """The streamer estimate along the field line from one surface point.
 
-    ``start`` is (part name, point mm, outward unit normal, surface field kV/mm at the
-    layout's voltages).  Air defaults to the layout's Peek-limit state, else 101.325
-    kPa and 20 degC.
+    ``start`` is a :data:`Start`, or a point (x, y) mm, which is moved to the nearest
+    conductor surface sample (:func:`surface_start`).  Air defaults to the layout's
+    Peek-limit state, else 101.325 kPa and 20 degC.
     """
     probe = probe_from_solution(solution) if probe is None else probe
-    part, xy, normal, E_surface = start
+    if len(start) == 2:
+        start = surface_start(solution, (float(start[0]), float(start[1])))
+    part, xy, normal, E_surface = start  # type: ignore[misc]
     p_bar = equivalent_pressure_bar(*_air_state(solution, pressure_kPa, temperature_C))
     h0 = 0.25 * _local_spacing_mm(solution, np.asarray(xy))
     extent = float(np.hypot(np.ptp(solution.x_mm), np.ptp(solution.y_mm)))
@@ -336,7 +285,7 @@ def estimate_inception(solution: Solution, pressure_kPa: float | None = None,
     InceptionError : no conductor surface carries any field, or no start point has a path
         into the gas (the message lists why).
     """
-    starts = [s for s in _start_points(solution) if s[3] > 0.0]
+    starts = [s for s in start_points(solution) if s[3] > 0.0]
     if not starts:
         raise InceptionError("no conductor surface carries any field: every electrode is at "
                              "the same potential")
@@ -376,7 +325,8 @@ def _least_in_gas(results: list[Inception]) -> Inception:
 
 __all__ = [
     "INCEPTION_CAUTION", "FieldProbe", "GasPath", "Inception", "InceptionError",
-    "describe_inception", "estimate_inception", "estimate_inception_at", "gas_field_sampler",
+    "Start", "describe_inception", "estimate_inception", "estimate_inception_at",
+    "gas_field_sampler", "surface_start",
     "inception_scale", "inception_to_json", "ionisation_length_mm", "path_inception",
     "probe_from_solution", "streamer_integral", "trace_gas_path", "utilisation_factor",
 ]

@@ -473,3 +473,15 @@ def test_isolated_sphere_onset_against_peeks_sphere_law(a_mm):
     U = inception_scale(E_unit, np.diff(r), equivalent_pressure_bar(101.325, 25.0))
     peek = float(peek_sphere_kV_per_cm(a_mm / 10, 1.0))
     assert U * E_unit[0] * 10 == pytest.approx(peek, rel=0.10)
+
+
+def test_estimate_from_a_clicked_point_snaps_to_the_nearest_conductor_surface():
+    # a point near the core, off its surface, starts the same radial path (REFERENCES 1.1)
+    from solver.inception import estimate_inception, estimate_inception_at
+
+    sol = analytic_coax_solution(1.0, 50.0, 20000.0)
+    probe = coax_probe(1.0, 50.0, 20000.0, SOL_NAMES)
+    clicked = estimate_inception_at(sol, (1.3, 0.05), probe=probe)
+    assert clicked.start_part == "Core"
+    assert clicked.path_mm[0] == pytest.approx([1.0, 0.0], abs=1e-9)
+    assert clicked.scale == pytest.approx(estimate_inception(sol, probe=probe).scale, rel=1e-3)
