@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import logging
 import sys
 from collections.abc import Sequence
 
@@ -23,6 +24,9 @@ SUBCOMMANDS = {
 
 def main(argv: Sequence[str] | None = None) -> int:
     """Entry point of the ``stresslens`` console script."""
+    from .logging_setup import install_logging
+
+    install_logging()
     args = list(sys.argv[1:] if argv is None else argv)
     if args and args[0] in SUBCOMMANDS:
         name = args.pop(0)
@@ -30,7 +34,9 @@ def main(argv: Sequence[str] | None = None) -> int:
         module = importlib.import_module(module_name)
         parser = argparse.ArgumentParser(prog=f"stresslens {name}", description=help_text)
         module.add_arguments(parser)
-        return int(module.run(parser.parse_args(args)))
+        status = int(module.run(parser.parse_args(args)))
+        logging.getLogger("app.cli").info("stresslens %s: exit status %d", name, status)
+        return status
     from . import cli_gui
 
     parser = argparse.ArgumentParser(

@@ -99,7 +99,10 @@ def build_window(layout_path: str | None):  # noqa: ANN201 - MainWindow
 
 
 def _interactive(layout_path: str | None) -> int:
+    from .logging_setup import install_excepthook
+
     app = make_app()
+    install_excepthook()
     window = build_window(layout_path)
     window.restore_window_state()
     window.show()
