@@ -16,6 +16,7 @@ from __future__ import annotations
 import json
 import math
 import os
+import unicodedata
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from typing import Any, Literal
@@ -33,6 +34,9 @@ Point = tuple[float, float]
 Symmetry = Literal["planar", "axisymmetric"]
 Kind = Literal["electrode", "floating", "dielectric"]
 Resolution = Literal["draft", "normal", "fine"] | float
+
+_BREAKING_CATEGORIES = ("Cc", "Cs", "Zl", "Zp")
+"""Unicode categories a part name may not contain: controls, surrogates, line breaks."""
 
 KINDS = ("electrode", "floating", "dielectric")
 SYMMETRIES = ("planar", "axisymmetric")
@@ -202,7 +206,8 @@ def loads_layout(data: str | bytes, source: str = "layout") -> Layout:
         except UnicodeDecodeError as exc:
             raise LayoutError(f"{source}: not UTF-8 text (byte {exc.start})") from None
     try:
-        obj = json.loads(data, parse_constant=_nonfinite_constant)
+        obj = json.loads(data, parse_constant=_nonfinite_constant,
+                         object_pairs_hook=_JsonObject.from_pairs)
     except RecursionError:
         raise LayoutError(f"{source}: JSON nested too deeply") from None
     except json.JSONDecodeError as exc:
@@ -216,6 +221,25 @@ def loads_layout(data: str | bytes, source: str = "layout") -> Layout:
 def _nonfinite_constant(name: str) -> float:
     """Keep NaN and +-Infinity as floats so the reader refuses them naming the field."""
     return float(name)
+
+
+class _JsonObject(dict):  # type: ignore[type-arg]
+    """A decoded JSON object that remembers keys given more than once.
+
+    Plain ``json`` keeps the last of repeated keys silently; a layout saying
+    ``"volts": 0`` and then ``"volts": 30000`` is ambiguous, so the reader refuses it,
+    naming the part (see ``_Reader``).
+    """
+
+    repeated: tuple[str, ...] = ()
+
+    @classmethod
+    def from_pairs(cls, pairs: list[tuple[str, Any]]) -> _JsonObject:
+        obj = cls(pairs)
+        if len(obj) < len(pairs):
+            keys = [k for k, _ in pairs]
+            obj.repeated = tuple(sorted({k for k in keys if keys.count(k) > 1}))
+        return obj
 
 
 def parse_layout(obj: Any, check_geometry: bool = True) -> Layout:
@@ -321,6 +345,9 @@ def _parse_part(obj: Any, index: int) -> Part:
         raise LayoutError(f"{label}: needs a non-empty 'name'")
     if len(name) > 200:
         raise LayoutError(f"{label}: name longer than 200 characters")
+    if any(unicodedata.category(c) in _BREAKING_CATEGORIES for c in name):
+        raise LayoutError(f"{label}: the name contains a control character (a line break, "
+                          f"tab or similar); use plain text")
     kind = r.choice("kind", KINDS)
     volts = charge = eps = None
     if kind == "electrode":
@@ -427,6 +454,9 @@ class _Reader:
             raise LayoutError(f"{label}: expected an object, got {_typename(obj)}")
         self.obj, self.label = obj, label
         self.seen: set[str] = set()
+        repeated = getattr(obj, "repeated", ())
+        if repeated:
+            raise LayoutError(f"{label}: the key '{repeated[0]}' is given more than once")
 
     def raw(self, key: str, default: Any = None) -> Any:
         self.seen.add(key)

@@ -31,6 +31,8 @@ CELL_MM = 20.0
 
 SLOW_FACTOR = 20
 
+NAME_CHARACTERS = st.characters(exclude_categories=("Cc", "Cs", "Zl", "Zp"))
+"""Anything but controls and line breaks, which part names may not hold."""
 coord = st.floats(-4.0, 4.0, allow_nan=False)
 size = st.floats(0.5, 7.0, allow_nan=False)
 
@@ -93,7 +95,8 @@ def regular_polygons(draw: st.DrawFn, x: float, y: float) -> dict[str, Any]:
 @st.composite
 def parts(draw: st.DrawFn, index: int, cx: float, cy: float) -> dict[str, Any]:
     kind = draw(st.sampled_from(["electrode", "floating", "dielectric"]))
-    d: dict[str, Any] = {"name": draw(st.text(min_size=1, max_size=12).filter(str.strip))
+    d: dict[str, Any] = {"name": draw(st.text(NAME_CHARACTERS, min_size=1,
+                                              max_size=12).filter(str.strip))
                          + f" #{index}", "kind": kind}
     if kind == "electrode":
         d["volts"] = draw(st.floats(-5e5, 5e5))

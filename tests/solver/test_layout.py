@@ -91,6 +91,10 @@ INVALID_OBJECTS: list[tuple[str, dict[str, Any], tuple[str, ...]]] = [
      ("part 1", "'name' must be text")),
     ("blank name", edited(lambda d: rod(d).update(name="   ")),
      ("part 1", "non-empty 'name'")),
+    ("name with a line break", edited(lambda d: rod(d).update(name="Rod\nleft")),
+     ("control character",)),
+    ("name with a tab", edited(lambda d: rod(d).update(name="Rod\tleft")),
+     ("control character",)),
     ("part not an object", edited(lambda d: d["parts"].append([1, 2])),
      ("part 3", "expected an object")),
     ("parts not a list", edited(lambda d: d.update(parts={"Rod": 1})),
@@ -279,6 +283,10 @@ RAW_TEXT_CASES: list[tuple[str, bytes, tuple[str, ...]]] = [
      ("nested too deeply",)),
     ("a JSON list at top level", b"[]", ("expected an object", "a list")),
     ("a JSON string at top level", b'"layout"', ("expected an object", "text")),
+    ("a key given twice", json.dumps(BASE).replace('"volts": 1000,', '"volts": 0, "volts": 1000,')
+     .encode(), ("part 'Rod'", "'volts' is given more than once")),
+    ("a top-level key given twice", b'{"stresslens_layout": 1, "stresslens_layout": 1}',
+     ("layout", "'stresslens_layout' is given more than once")),
 ]
 
 
@@ -324,6 +332,12 @@ def test_refused_file_is_left_untouched(tmp_path: Path) -> None:
     with pytest.raises(LayoutError):
         load_layout(path)
     assert path.read_text(encoding="utf-8") == text
+
+
+def test_names_may_hold_any_printed_text() -> None:
+    # non-breaking spaces, accents, symbols and joined emoji are all fine in a name
+    obj = edited(lambda d: rod(d).update(name="Stab\u00a0Ø 10 mm – Ω ✓ 👩\u200d🔬"))
+    assert parse_layout(obj).parts[0].name.startswith("Stab")
 
 
 def test_same_voltage_electrodes_may_overlap() -> None:
