@@ -263,7 +263,7 @@ def _check_in_box(layout: Layout, part: Part, poly: ShPolygon) -> None:
     at_box_volts = part.kind == "electrode" and part.volts == b.volts
     if b.volts is None or not part.is_conductor or at_box_volts:
         return
-    tol = 1.5 * _SAGITTA_REL * largest_arc_radius(part.shape) + _GEOM_TOL_MM
+    tol = _sagitta_allowance_mm(largest_arc_radius(part.shape))
     walls = [w for w, g in gaps.items() if g <= tol]
     if walls:
         raise LayoutError(f"part '{part.name}': touches the {walls[0]} wall of the boundary "
@@ -297,15 +297,19 @@ def touch_tolerance_mm(a: Part, b: Part) -> float:
     than the computed one by up to the sum of the two sagittas,
     :math:`(1-\\cos(\\Delta\\theta/2))(R_a + R_b)`; we allow 1.5 times that.
     """
-    arcs = largest_arc_radius(a.shape) + largest_arc_radius(b.shape)
-    return 1.5 * _SAGITTA_REL * arcs + _GEOM_TOL_MM
+    return _sagitta_allowance_mm(largest_arc_radius(a.shape) + largest_arc_radius(b.shape))
+
+
+def _sagitta_allowance_mm(arc_radii_mm: float) -> float:
+    """1.5 times the largest sagitta of arcs of these radii (summed, mm), plus round-off."""
+    return 1.5 * _SAGITTA_REL * arc_radii_mm + _GEOM_TOL_MM
 
 
 def _check_pairs(layout: Layout, outlines: tuple[PartOutline, ...]) -> None:
     polys = [o.polygon for o in outlines]
-    widest = 1.5 * _SAGITTA_REL * 2 * max(largest_arc_radius(p.shape) for p in layout.parts)
+    widest = _sagitta_allowance_mm(2 * max(largest_arc_radius(p.shape) for p in layout.parts))
     tree = shapely.STRtree(polys)
-    left, right = tree.query(polys, predicate="dwithin", distance=widest + _GEOM_TOL_MM)
+    left, right = tree.query(polys, predicate="dwithin", distance=widest)
     for i, j in sorted(zip(left.tolist(), right.tolist(), strict=True)):
         if i >= j:
             continue
