@@ -85,7 +85,7 @@ class Document:
         self._next_id = 1
         self._settings = Settings()
         self._path: Path | None = None
-        self._saved: tuple[tuple[Part, ...], Settings] = ((), Settings())
+        self._saved: tuple[tuple[Part, ...], Settings] | None = ((), Settings())
         self._was_dirty = False
         self._interacting = False
         self._problem_cache: tuple[int, str | None] = (-1, None)
@@ -255,6 +255,12 @@ class Document:
     def set_path(self, path: str | Path | None) -> None:
         self._path = Path(path) if path is not None else None
         self.path_changed.emit(str(self._path or ""))
+
+    def mark_unsaved(self) -> None:
+        """Record that the current content is on no disk (restored from a recovery
+        file): it stays dirty until saved."""
+        self._saved = None
+        self._emit_dirty()
 
     def mark_saved(self, path: str | Path) -> None:
         """Record that the current content was written to ``path``."""

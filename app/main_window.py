@@ -3,7 +3,8 @@
 Hooks for views built on top of the editor (the live solve and its overlays):
 
 * ``document_changed(revision)``: a Qt signal after every change of the document;
-  ``interaction_changed(dragging)`` when a drag starts or ends.
+  ``interaction_changed(dragging)`` when a drag starts or ends; ``closed()`` after a
+  normal close (changes saved or knowingly discarded).
 * ``canvas.underlay`` / ``canvas.overlay``: scene groups below / above the parts.
 * :meth:`MainWindow.add_results_dock`: a dock on the right-hand side.
 * :meth:`MainWindow.set_ready_check`: what "ready for a screenshot" means (by default,
@@ -42,6 +43,8 @@ class MainWindow(QMainWindow):
 
     document_changed = Signal(int)
     interaction_changed = Signal(bool)
+    closed = Signal()
+    """The window was closed and its changes saved or knowingly discarded."""
 
     def __init__(self, layout: Layout | None = None, path: str | Path | None = None,
                  settings: QSettings | None = None, parent: QWidget | None = None) -> None:
@@ -180,6 +183,7 @@ class MainWindow(QMainWindow):
             self.settings.setValue("window/geometry", self.saveGeometry())
             self.settings.setValue("window/state", self.saveState())
             event.accept()
+            self.closed.emit()
         else:
             event.ignore()
 
