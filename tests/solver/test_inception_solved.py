@@ -92,3 +92,78 @@ def test_solved_estimate_serialises_for_the_command_line():
     assert out["criterion"] == "streamer"
     assert out["volts"]["HV sphere"] == pytest.approx(1000.0 * out["scale"])
     assert all(len(p) == 2 for p in out["path_mm"])
+
+
+# --------------------------------------------------------------------------- Peek limits
+
+
+def _limit_near(sol, part: str, xy: tuple[float, float]) -> float:
+    best = min(((float(np.min(np.hypot(*(t.xy_mm - xy).T))), t) for t in sol.surfaces
+                if t.part == part), key=lambda dt: dt[0])[1]
+    return float(best.limit_kV_per_mm[int(np.argmin(np.hypot(*(best.xy_mm - xy).T)))])
+
+
+PEEK_AIR = {"type": "peek", "pressure_kPa": 90.0, "temperature_C": 30.0, "surface_factor": 0.9}
+
+
+def test_solved_planar_cylinder_carries_peeks_wire_limit():
+    # Peek's wire law g = 30 m delta (1 + 0.301/sqrt(delta r)) (encyclopaedia article "Peek's
+    # law"); delta in Peek's convention at 90 kPa, 30 degC is 0.8736 (REFERENCES section 0)
+    lay = parse_layout({
+        "stresslens_layout": 1, "symmetry": "planar", "resolution": "draft", "limit": PEEK_AIR,
+        "parts": [{"name": "Wire", "kind": "electrode", "volts": 10000.0,
+                   "shape": {"type": "circle", "center": [0, 30], "radius": 4.0}},
+                  {"name": "Plane", "kind": "electrode", "volts": 0.0,
+                   "shape": {"type": "rect", "min": [-200, -10], "max": [200, 0]}}]})
+    sol = solve(lay, estimate_error=False, capacitance=False)
+    d = 0.8736
+    expected = 3.0 * 0.9 * d * (1 + 0.301 / math.sqrt(d * 0.4))
+    assert _limit_near(sol, "Wire", (0.0, 26.0)) == pytest.approx(expected, rel=2e-3)
+
+
+def rod_layout() -> object:
+    """A rod of radius 5 mm on the axis, 200 mm long with hemispherical ends, over a plane."""
+    t = np.linspace(0, math.pi / 2, 91)
+    tip = [[5 * math.sin(u), 50 + 5 - 5 * math.cos(u)] for u in t]
+    top = [[5 * math.cos(u), 250 - 5 + 5 * math.sin(u)] for u in t]
+    return parse_layout({
+        "stresslens_layout": 1, "symmetry": "axisymmetric", "resolution": "draft",
+        "limit": PEEK_AIR,
+        "parts": [{"name": "Rod", "kind": "electrode", "volts": 10000.0,
+                   "shape": {"type": "polygon", "points": tip + top}},
+                  {"name": "Plane", "kind": "electrode", "volts": 0.0,
+                   "shape": {"type": "polygon", "points": [[0, -20], [400, -20], [400, 0],
+                                                           [0, 0]],
+                             "corner_radius": [0, 10, 10, 0]}}]})
+
+
+def test_solved_sphere_tip_carries_peeks_sphere_limit():
+    # Peek's sphere law g = 27.2 m delta (1 + 0.54/sqrt(delta r)) (Peek 1929, from memory) on
+    # the rod's hemispherical tip (r = 5 mm), beside the axis
+    sol = solve(rod_layout(), estimate_error=False, capacitance=False)
+    d = 0.8736
+    expected = 2.72 * 0.9 * d * (1 + 0.54 / math.sqrt(d * 0.5))
+    assert _limit_near(sol, "Rod", (1.25, 50.16)) == pytest.approx(expected, rel=0.01)
+
+
+@pytest.mark.xfail(strict=True, reason="where an arc meets the axis the drawn outline turns "
+                   "by 90 degrees (a sharp vertex, radius 0), so post.radius_at gives the edges "
+                   "beside it an infinite radius and the tip's point the flat-surface limit")
+def test_solved_sphere_tip_on_the_axis_carries_peeks_sphere_limit():
+    # as above, at the tip's point on the axis, where the peak field sits
+    sol = solve(rod_layout(), estimate_error=False, capacitance=False)
+    d = 0.8736
+    expected = 2.72 * 0.9 * d * (1 + 0.54 / math.sqrt(d * 0.5))
+    assert _limit_near(sol, "Rod", (0.0, 50.0)) == pytest.approx(expected, rel=0.01)
+
+
+@pytest.mark.xfail(strict=True, reason="the solver does not yet pass each outline point's "
+                   "distance from the axis and normal to the Peek limit (solver/api.py "
+                   "limit_function), so a rod's side is judged as a flat surface")
+def test_solved_rod_side_carries_the_equivalent_sphere_limit():
+    # side of a 5 mm rod: swept-circle curvature 1/5 mm, outline straight; our rule takes
+    # Peek's sphere form at 2/(sum of curvatures) = 10 mm (solver/air.py docstring)
+    sol = solve(rod_layout(), estimate_error=False, capacitance=False)
+    d = 0.8736
+    expected = 2.72 * 0.9 * d * (1 + 0.54 / math.sqrt(d * 1.0))
+    assert _limit_near(sol, "Rod", (5.0, 150.0)) == pytest.approx(expected, rel=0.01)
