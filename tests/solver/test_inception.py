@@ -485,3 +485,33 @@ def test_estimate_from_a_clicked_point_snaps_to_the_nearest_conductor_surface():
     assert clicked.start_part == "Core"
     assert clicked.path_mm[0] == pytest.approx([1.0, 0.0], abs=1e-9)
     assert clicked.scale == pytest.approx(estimate_inception(sol, probe=probe).scale, rel=1e-3)
+
+
+def test_K_is_configurable_with_schumanns_C_kept():
+    # with C fixed at 18/45.16 cm bar/kV^2, a uniform gap breaks down at
+    # V = 24.36 pd + sqrt(K/C pd) (the uniform case of the criterion; Kuffel et al. 2000)
+    C = STREAMER_K / 45.16
+    for K in (9.2, 18.0, 20.0):
+        volts = inception_scale(np.full(20, 1e-3 / 10.0), 10.0 / 19, 1.0, K=K)
+        assert volts / 1000 == pytest.approx(24.36 + math.sqrt(K / C), rel=1e-9)
+
+
+def test_a_path_ending_on_a_grounded_box_wall_reports_the_gap_to_the_wall():
+    # the coaxial gap again, with the outer conductor replaced by a grounded box boundary
+    # at the same place: eta = r ln(R/r) / (R - r) (REFERENCES section 1.1)
+    from dataclasses import replace
+
+    from solver.inception import estimate_inception
+    from solver.inception_path import OUTSIDE
+    from solver.layout import Boundary
+
+    r, R, volts = 1.0, 50.0, 20000.0
+    sol = analytic_coax_solution(r, R, volts)
+    boxed = replace(sol, layout=replace(sol.layout, boundary=Boundary(
+        "box", (-60.0, -60.0), (60.0, 60.0), 0.0)))
+    probe = coax_probe(r, R, volts, SOL_NAMES)
+    walls = FieldProbe(probe.field, lambda p: np.where(probe.region(p) == 1, OUTSIDE,
+                                                       probe.region(p)), probe.names)
+    inc = estimate_inception(boxed, probe=walls)
+    assert inc.ends_at == "box wall"
+    assert inc.utilisation == pytest.approx(r * math.log(R / r) / (R - r), rel=3e-3)
