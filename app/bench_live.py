@@ -37,6 +37,7 @@ def main(argv: list[str] | None = None) -> int:
 
     app = make_app()
     w = build_window(args.layout)
+    w.autosave.finish()  # scripted edits are not the user's work: no recovery file
     w.files.confirm_discard = lambda: True
     w.resize(1400, 900)
     w.show()

@@ -88,11 +88,13 @@ def build_window(layout_path: str | None):  # noqa: ANN201 - MainWindow
 
     A bad file is reported in a dialog by the window itself; the window stays open.
     """
+    from .autosave import attach_autosave
     from .live_view import attach_live_view
     from .main_window import MainWindow
 
     window = MainWindow()
     attach_live_view(window)
+    attach_autosave(window)
     if layout_path:
         window.files.load(layout_path)
     return window
@@ -106,6 +108,7 @@ def _interactive(layout_path: str | None) -> int:
     window = build_window(layout_path)
     window.restore_window_state()
     window.show()
+    window.autosave.offer_recovery()  # work left by a session that did not close normally
     return int(app.exec())
 
 
