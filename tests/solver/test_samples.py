@@ -78,7 +78,7 @@ def test_samples_cover_both_limit_kinds() -> None:
 BAND = 0.08
 REGRESSION: dict[str, tuple[str, float, set[str]]] = {
     # sample: (part holding the peak, peak kV/mm at 'normal', parts with hot spots)
-    "bench_supply_terminal.layout.json": ("Terminal", 3.360, {"Terminal"}),
+    "bench_supply_terminal.layout.json": ("Terminal", 3.682, {"Terminal"}),
     "coax_feedthrough_epoxy.layout.json": ("Conductor", 2.835, set()),
     "floating_shield.layout.json": ("HV electrode", 2.559, set()),
     "grading_ring_test_rod.layout.json": ("Test rod", 7.485, {"Test rod"}),
