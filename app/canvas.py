@@ -23,6 +23,7 @@ from .document import Document
 from .hit_test import part_at
 from .items import BoundaryItem, PartItem
 from .preview_item import PreviewItem
+from .problem_marks import problem_parts, problem_point
 from .selection import Selection
 from .tools import TOOL_CLASSES, Tool, ToolContext
 
@@ -172,6 +173,15 @@ class Canvas(QGraphicsView):
 
     def _on_preview_changed(self) -> None:
         self.preview_item.set_preview(self.tool.preview())
+
+    def show_problem(self, message: str | None) -> None:
+        """Mark the parts a layout problem names, and the point it gives (None: clear)."""
+        names = {p.name for _, p in self.doc.parts()}
+        bad = set(problem_parts(message, names)) if message else set()
+        vmax = self._max_abs_volts()
+        for pid, item in self.items_by_id.items():
+            item.set_problem(self.doc.part(pid).name in bad, vmax)
+        self.preview_item.set_problem_at(problem_point(message) if message else None)
 
     # ------------------------------------------------------------------ tools
 

@@ -94,6 +94,7 @@ class PartItem(QGraphicsPathItem):
         self.part: Part | None = None
         self.valid = True
         self.highlighted = False
+        self.problem = False
         self.label = PartLabelItem(self)
         self._inside = QPointF()
         self._px_per_mm = px_per_mm
@@ -130,6 +131,12 @@ class PartItem(QGraphicsPathItem):
         self.highlighted = on
         self._style(max_abs_volts)
 
+    def set_problem(self, on: bool, max_abs_volts: float) -> None:
+        """Mark the part as named in the layout's current problem."""
+        if on != self.problem:
+            self.problem = on
+            self._style(max_abs_volts)
+
     def _style(self, max_abs_volts: float) -> None:
         assert self.part is not None
         line, fill = palette.part_colours(self.part.kind, self.part.volts, max_abs_volts)
@@ -137,10 +144,11 @@ class PartItem(QGraphicsPathItem):
                    2.2 if self.highlighted else 1.3)
         pen.setCosmetic(True)
         pen.setJoinStyle(Qt.PenJoinStyle.RoundJoin)
-        if not self.valid:
-            pen = QPen(palette.INVALID, 1.6, Qt.PenStyle.DashLine)
+        if not self.valid or self.problem:
+            pen = QPen(palette.INVALID, 2.0 if self.problem else 1.6, Qt.PenStyle.DashLine)
             pen.setCosmetic(True)
-            fill = QColor(fill.red(), fill.green(), fill.blue(), 70)
+            if not self.valid:
+                fill = QColor(fill.red(), fill.green(), fill.blue(), 70)
         self.setPen(pen)
         self.setBrush(QBrush(fill))
 

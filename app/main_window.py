@@ -133,6 +133,7 @@ class MainWindow(QMainWindow):
 
     def _update_problem(self) -> None:
         msg = self.doc.problem()
+        self.canvas.show_problem(msg)
         self.problem_label.setText(f"\u26a0 {msg}" if msg else "")
         self.problem_label.setToolTip(msg or "")
         self.problem_label.setStyleSheet("color: #b3410e;" if msg else "")

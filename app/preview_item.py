@@ -27,6 +27,7 @@ class PreviewItem(QGraphicsItem):
         super().__init__()
         self.preview: Preview | None = None
         self.snap: tuple[tuple[float, float], str] | None = None
+        self.problem_at: tuple[float, float] | None = None
         self.setAcceptedMouseButtons(Qt.MouseButton.NoButton)
 
     def set_snap(self, snap: tuple[tuple[float, float], str] | None) -> None:
@@ -48,6 +49,8 @@ class PreviewItem(QGraphicsItem):
         t = painter.worldTransform()
         if self.snap is not None:
             self._snap_marker(painter, t)
+        if self.problem_at is not None:
+            self._problem_marker(painter, t)
         p = self.preview
         if p is None:
             return
@@ -82,6 +85,25 @@ class PreviewItem(QGraphicsItem):
                                            c + QPointF(0, 6), c + QPointF(-6, 0)]))
         else:
             painter.drawEllipse(c, 5.0, 5.0)
+        painter.restore()
+
+    def set_problem_at(self, at: tuple[float, float] | None) -> None:
+        """Mark the point (mm) a layout problem refers to (None: no mark)."""
+        if at != self.problem_at:
+            self.problem_at = at
+            self.update()
+
+    def _problem_marker(self, painter: QPainter, t: QTransform) -> None:
+        assert self.problem_at is not None
+        c = t.map(QPointF(*self.problem_at))
+        painter.save()
+        painter.resetTransform()
+        painter.setRenderHint(QPainter.RenderHint.Antialiasing)
+        painter.setPen(QPen(palette.INVALID, 2.2))
+        painter.setBrush(palette.LABEL_HALO)
+        painter.drawEllipse(c, 11.0, 11.0)
+        painter.drawLine(c + QPointF(0, -6), c + QPointF(0, 2))
+        painter.drawPoint(c + QPointF(0, 6))
         painter.restore()
 
     @staticmethod

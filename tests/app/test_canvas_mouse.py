@@ -250,3 +250,22 @@ def test_boundary_box_is_drawn_and_follows_the_settings(qtbot, tmp_path) -> None
     assert "insulating" in item.label.lines[0]
     w.doc.update_settings(boundary=Boundary())
     assert not item.isVisible()
+
+
+def test_problem_parts_and_place_are_marked(qtbot, tmp_path) -> None:  # noqa: ANN001
+    # DESIGN.md section 2: different conductors may not touch; the message names both
+    from dataclasses import replace as dc_replace
+
+    from solver.layout import Circle
+    w = open_window(qtbot, tmp_path, every_shape_layout())
+    ball = w.doc.id_of("Ball")
+    original = w.doc.part(ball)
+    w.doc.replace_part(ball, dc_replace(original, shape=Circle((-21.0, 0.0), 6.0)))
+    items = w.canvas.items_by_id
+    qtbot.waitUntil(lambda: items[ball].problem, timeout=2000)
+    assert items[w.doc.id_of("Bar")].problem and not items[w.doc.id_of("Lens")].problem
+    at = w.canvas.preview_item.problem_at
+    assert at is not None and -27.0 <= at[0] <= -15.0 and abs(at[1]) <= 6.0
+    w.doc.replace_part(ball, original)
+    qtbot.waitUntil(lambda: not items[ball].problem, timeout=2000)
+    assert w.canvas.preview_item.problem_at is None
