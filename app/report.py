@@ -128,7 +128,13 @@ def _summary(fig: Figure, solution: Solution) -> float:
                else "below the limit everywhere")
     fig.text(x, y - 0.102, verdict, fontsize=9, va="top", weight="bold",
              color=HOT_SPOT_COLOUR if n_hot else "#2d6a2d")
-    return _summary_table(fig, solution, x, y - 0.15)
+    note = ""
+    if peak is not None and solution.part(peak[0]).sharp_corner:
+        note = "\n".join(textwrap.wrap(
+            "The peak sits on a sharp corner, where the true field is unbounded: this value "
+            "depends on the grid. Round the corner to get a number that converges.", 50))
+        fig.text(x, y - 0.128, note, fontsize=8.5, va="top", color=HOT_SPOT_COLOUR)
+    return _summary_table(fig, solution, x, y - 0.15 - 0.022 * (note.count("\n") + bool(note)))
 
 
 def _summary_table(fig: Figure, solution: Solution, x: float, y: float) -> float:
