@@ -258,6 +258,10 @@ def mirror(w: MainWindow, vertical_line: bool) -> None:
     if not w.selection.ids:
         w.show_message("Mirror: select the parts to mirror first")
         return
+    if vertical_line and w.doc.settings.symmetry == "axisymmetric":
+        w.show_message("Mirror: in an axisymmetric layout x is the radius; only up-down "
+                       "mirroring keeps the parts at r >= 0")
+        return
     w.ctx.push(lambda: MirrorPartsCommand(w.doc, w.selection.ids, vertical_line))
 
 

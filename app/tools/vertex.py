@@ -29,7 +29,8 @@ class VertexTool(Tool):
     """
 
     name, label = "vertex", "Edit outline"
-    hint = "drag vertices or edges; double-click adds/removes a vertex; R rounds a corner"
+    hint = ("drag vertices or edges; double-click adds/removes a vertex; Shift+R rounds "
+            "the clicked corner")
 
     def __init__(self, ctx) -> None:  # noqa: ANN001 - ToolContext
         super().__init__(ctx)

@@ -171,3 +171,18 @@ def test_properties_show_one_shape_form_at_a_time(win) -> None:  # noqa: ANN001
         win.selection.set([win.doc.id_of(name)])
     forms = win.properties_panel.shape_box.findChildren(ShapeForm)
     assert len(forms) == 1 and forms[0] is win.properties_panel.shape_form
+
+
+def test_axisymmetric_layouts_mirror_only_up_down(qtbot, tmp_path) -> None:  # noqa: ANN001
+    # DESIGN.md section 2: in axisymmetry x is the radius r >= 0
+    from editor_window import open_window as open_win
+
+    from solver.layout import Circle, Layout, Part
+    layout = Layout(parts=(Part("Ball", "floating", Circle((30.0, 5.0), 6.0), charge=0.0),),
+                    symmetry="axisymmetric")
+    w = open_win(qtbot, tmp_path, layout)
+    w.selection.set(w.doc.ids())
+    w.actions_["mirror_v"].trigger()
+    assert w.stack.count() == 0 and "only up-down" in w.statusBar().currentMessage()
+    w.actions_["mirror_h"].trigger()
+    assert w.stack.count() == 1
