@@ -15,7 +15,18 @@ import math
 
 import numpy as np
 from PySide6.QtCore import QPointF, QRectF, Qt
-from PySide6.QtGui import QBrush, QColor, QFont, QImage, QPainterPath, QPen, QPixmap, QTransform
+from PySide6.QtGui import (
+    QBrush,
+    QColor,
+    QFont,
+    QFontMetricsF,
+    QImage,
+    QPainter,
+    QPainterPath,
+    QPen,
+    QPixmap,
+    QTransform,
+)
 from PySide6.QtWidgets import (
     QGraphicsEllipseItem,
     QGraphicsItem,
@@ -23,6 +34,9 @@ from PySide6.QtWidgets import (
     QGraphicsPathItem,
     QGraphicsPixmapItem,
     QGraphicsSimpleTextItem,
+    QGraphicsView,
+    QStyleOptionGraphicsItem,
+    QWidget,
 )
 
 from .palette import HOT_SPOT
@@ -36,6 +50,10 @@ OVERLAY_LABELS = {"potential_map": "Potential colour map",
                   "equipotentials": "Equipotential lines",
                   "field_lines": "Field lines",
                   "hot_spots": "Hot spots"}
+OVERLAY_SHORT = {"potential_map": "Potential map", "field_map": "Field map",
+                 "equipotentials": "Equipotentials", "field_lines": "Field lines",
+                 "hot_spots": "Hot spots"}
+"""Tool-bar texts of the overlay switches."""
 EQUIPOTENTIAL = QColor("#2d3a4a")
 FIELD_LINE = QColor(150, 70, 40, 170)
 LABEL_BG = QColor(251, 250, 247, 220)
@@ -65,19 +83,6 @@ def _pen(colour: QColor, width: float, style: Qt.PenStyle = Qt.PenStyle.SolidLin
     return pen
 
 
-def _label(text: str, at: tuple[float, float], colour: QColor, bold: bool = False
-           ) -> QGraphicsSimpleTextItem:
-    item = QGraphicsSimpleTextItem(text)
-    item.setFlag(QGraphicsItem.GraphicsItemFlag.ItemIgnoresTransformations, True)
-    font = QFont()
-    font.setPointSizeF(8.5)
-    font.setBold(bold)
-    item.setFont(font)
-    item.setBrush(QBrush(colour))
-    item.setPos(QPointF(*at))
-    return item
-
-
 def format_kV(volts: float) -> str:
     """'12.5 kV' style text for a potential in volts."""
     kv = volts / 1000.0
@@ -87,8 +92,10 @@ def format_kV(volts: float) -> str:
 class FieldOverlays:
     """The overlay items of one canvas; :meth:`show` replaces them with a new result."""
 
-    def __init__(self, underlay: QGraphicsItemGroup, overlay: QGraphicsItemGroup) -> None:
-        self.underlay, self.overlay = underlay, overlay
+    def __init__(self, underlay: QGraphicsItemGroup, overlay: QGraphicsItemGroup,
+                 view: QGraphicsView | None = None) -> None:
+        self.underlay, self.overlay, self.view = underlay, overlay, view
+        self.tags: list[TagItem] = []
         self.visible = {n: n not in DEFAULT_OFF for n in OVERLAY_NAMES}
         self.groups: dict[str, QGraphicsItemGroup] = {}
         for name in OVERLAY_NAMES:
@@ -117,6 +124,7 @@ class FieldOverlays:
         self._equipotentials(res)
         self._field_lines(res)
         self._hot_spots(res)
+        self.place_labels()
         for name, g in self.groups.items():
             g.setVisible(self.visible[name])
 
@@ -141,16 +149,39 @@ class FieldOverlays:
         self._add(name, item)
 
     def _equipotentials(self, res: LiveResult) -> None:
+        self.tags = []
         for level, lines in res.equipotentials:
             if not lines:
                 continue
             item = QGraphicsPathItem(_path(lines))
             item.setPen(_pen(EQUIPOTENTIAL, 1.0))
             self._add("equipotentials", item)
-            longest = max(lines, key=len)
-            mid = longest[len(longest) // 2]
-            self._add("equipotentials", _label(format_kV(level), (mid[0], mid[1]),
-                                               EQUIPOTENTIAL))
+            tag = TagItem(format_kV(level), EQUIPOTENTIAL)
+            tag.candidates = label_candidates(lines)
+            self._add("equipotentials", tag)
+            self.tags.append(tag)
+
+    def place_labels(self) -> None:
+        """Put each equipotential label on its line where it covers no part label, hot-spot
+        marker or other equipotential label, inside the visible canvas; hide the labels
+        that find no such place.  Runs again after every zoom or pan."""
+        view = self.view
+        if view is None or not self.tags:
+            return
+        vt = view.viewportTransform()
+        vp = QRectF(view.viewport().rect()).adjusted(34, 24, -8, -34)  # clear of the rulers
+        taken = [r.adjusted(-2, -2, 2, 2) for r in obstacle_rects(view, self.groups["hot_spots"])]
+        for tag in self.tags:
+            size = tag.boundingRect()
+            tag.setVisible(False)
+            for x, y in tag.candidates:
+                c = vt.map(QPointF(x, y))
+                box = size.translated(c)
+                if vp.contains(box) and not any(box.intersects(t) for t in taken):
+                    tag.setPos(QPointF(x, y))
+                    tag.setVisible(True)
+                    taken.append(box.adjusted(-3, -3, 3, 3))
+                    break
 
     def _field_lines(self, res: LiveResult) -> None:
         if res.field_lines:
@@ -194,8 +225,67 @@ class FieldOverlays:
             placed.append((hs.at_mm[0], hs.at_mm[1], right))
             text.setPos(r + 3 if right else -r - 3 - width, -r - 12 + 28 * stack)
             self._add("hot_spots", ring)
+
     def hot_spot_count(self) -> int:
         return len(self.result.solution.hot_spots) if self.result else 0
+
+
+class TagItem(QGraphicsItem):
+    """A short text on a soft halo, centred on its position, upright and of constant
+    size at every zoom.  ``candidates`` are the places (mm) it may go, best first."""
+
+    font: QFont | None = None
+
+    def __init__(self, text: str, colour: QColor) -> None:
+        super().__init__()
+        self.setFlag(QGraphicsItem.GraphicsItemFlag.ItemIgnoresTransformations, True)
+        self.setAcceptedMouseButtons(Qt.MouseButton.NoButton)
+        if TagItem.font is None:
+            TagItem.font = QFont()
+            TagItem.font.setPointSizeF(8.0)
+        self.text, self.colour = text, colour
+        fm = QFontMetricsF(TagItem.font)
+        w, h = fm.horizontalAdvance(text) + 6, fm.height() + 1
+        self._rect = QRectF(-w / 2, -h / 2, w, h)
+        self.candidates: list[tuple[float, float]] = []
+
+    def boundingRect(self) -> QRectF:
+        return self._rect
+
+    def paint(self, painter: QPainter, option: QStyleOptionGraphicsItem,
+              widget: QWidget | None = None) -> None:
+        painter.setPen(Qt.PenStyle.NoPen)
+        painter.setBrush(LABEL_BG)
+        painter.drawRoundedRect(self._rect, 3, 3)
+        painter.setFont(TagItem.font)
+        painter.setPen(self.colour)
+        painter.drawText(self._rect, Qt.AlignmentFlag.AlignCenter, self.text)
+
+
+LABEL_FRACTIONS = (0.5, 0.38, 0.62, 0.26, 0.74, 0.14, 0.86, 0.06, 0.94)
+
+
+def label_candidates(lines: list[np.ndarray]) -> list[tuple[float, float]]:
+    """Places for a contour's label: along its longest pieces, middle first, then
+    alternately towards the ends."""
+    out = []
+    for ln in sorted(lines, key=len, reverse=True)[:3]:
+        for f in LABEL_FRACTIONS:
+            x, y = ln[int(f * (len(ln) - 1))]
+            out.append((float(x), float(y)))
+    return out
+
+
+def obstacle_rects(view: QGraphicsView, *groups: QGraphicsItem) -> list[QRectF]:
+    """Viewport rectangles (px) that labels must not cover: the part labels of the view
+    (its ``items_by_id[...].label``, when it has them) and every item under ``groups``."""
+    vt = view.viewportTransform()
+    items = [getattr(it, "label", None) for it in getattr(view, "items_by_id", {}).values()]
+    for g in groups:
+        for child in g.childItems():
+            items += [child, *child.childItems()]
+    return [it.deviceTransform(vt).mapRect(it.boundingRect()) for it in items
+            if it is not None and it.isVisible()]
 
 
 def hot_spot_text(hs) -> str:  # noqa: ANN001 - solver.solution.HotSpot

@@ -17,9 +17,11 @@ without the error estimate; otherwise the layout's own resolution with it.
 
 from __future__ import annotations
 
+import math
 import time
 import traceback
-from dataclasses import dataclass, field
+from collections.abc import Callable
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, Signal
@@ -33,7 +35,26 @@ from .colour_maps import map_rgba
 RASTER_PX = 360
 """Longest side, in pixels, of the regular raster the colour map is drawn from."""
 EQUIPOTENTIAL_STEP_PERCENT = 10.0
+MAX_LEVELS = 50
+"""Most equipotential lines drawn; a finer step is widened (and the user told)."""
 FIELD_LINES = 32
+
+
+@dataclass(frozen=True)
+class EquipotentialStep:
+    """Spacing of the equipotential lines: ``value`` in kV, or in percent of the largest
+    potential difference between the conductors and the far boundary."""
+
+    value: float = EQUIPOTENTIAL_STEP_PERCENT
+    unit: str = "%"
+    """``"%"`` or ``"kV"``."""
+
+    def __post_init__(self) -> None:
+        if self.unit not in ("%", "kV"):
+            raise ValueError(f"equipotential step unit must be % or kV, not {self.unit!r}")
+
+    def text(self) -> str:
+        return f"{self.value:g} {self.unit}"
 
 
 @dataclass(frozen=True)
@@ -59,20 +80,43 @@ class LiveResult:
     any conductor's peak (kV/mm)."""
     seconds: float
     notes: tuple[str, ...] = field(default_factory=tuple)
+    step: EquipotentialStep = field(default_factory=lambda: EquipotentialStep())
+    """The equipotential step the lines were drawn at."""
+    potential_range_V: tuple[float, float] = (0.0, 1.0)
+    """(low, high) ends of the potential colour scale, V."""
+    field_top_kV_per_mm: float = 1.0
+    """Top of the field-strength colour scale, kV/mm (its bottom is 0)."""
 
 
-def equipotential_levels(solution: Solution, step_percent: float) -> list[float]:
-    """Levels (V) at ``step_percent`` of the largest potential difference, ends excluded.
+def equipotential_levels(solution: Solution, step: EquipotentialStep | float
+                         ) -> tuple[list[float], bool]:
+    """Levels (V) strictly between the lowest and highest potential, and a coarsened flag.
 
-    The largest difference is taken over the conductor potentials and the outer edge,
-    :math:`\\Delta V = V_{max} - V_{min}`; levels are :math:`V_{min} + k\\,s\\,\\Delta V`.
+    The range is taken over the conductor potentials and the far boundary (0 V),
+    :math:`\\Delta V = V_{max} - V_{min}`.  A step of :math:`s` percent gives
+    :math:`V_{min} + k\\,s\\,\\Delta V/100`; a step of :math:`s` kV gives the multiples
+    :math:`k\\,s`.  A step giving more than :data:`MAX_LEVELS` levels is widened to
+    :math:`\\Delta V / MAX\\_LEVELS` rounded up to a whole percent, and the flag is True.
+    A bare number is a percent step.
     """
+    if not isinstance(step, EquipotentialStep):
+        step = EquipotentialStep(float(step), "%")
     volts = [p.volts for p in solution.parts if p.volts is not None] + [0.0]
     lo, hi = min(volts), max(volts)
-    if hi - lo <= 0 or step_percent <= 0:
-        return []
-    n = int(round(100.0 / step_percent))
-    return [lo + k * (hi - lo) * step_percent / 100.0 for k in range(1, n)]
+    span = hi - lo
+    if span <= 0 or not step.value > 0:
+        return [], False
+    step_V = step.value * 1000.0 if step.unit == "kV" else step.value / 100.0 * span
+    coarsened = span / step_V > MAX_LEVELS + 1
+    if coarsened:
+        step_V = math.ceil(100.0 / MAX_LEVELS) / 100.0 * span
+    if step.unit == "kV" and not coarsened:
+        k0, k1 = math.floor(lo / step_V) + 1, math.ceil(hi / step_V) - 1
+        levels = [k * step_V for k in range(k0, k1 + 1)]
+    else:
+        levels = [lo + k * step_V for k in range(1, int(span / step_V) + 2)]
+    tol = 1e-9 * span
+    return [v for v in levels if lo + tol < v < hi - tol], coarsened
 
 
 def resample(solution: Solution, px: int = RASTER_PX
@@ -121,31 +165,56 @@ def thin(line: np.ndarray, max_points: int = 400) -> np.ndarray:
     return np.vstack([line[::step], line[-1:]])
 
 
+def contours(solution: Solution, step: EquipotentialStep
+             ) -> tuple[list[tuple[float, list[np.ndarray]]], tuple[str, ...]]:
+    """Thinned equipotential polylines at ``step`` and a note when the step was widened."""
+    levels, coarsened = equipotential_levels(solution, step)
+    eq = solver.equipotentials(solution, levels)
+    notes = (f"equipotential step {step.text()} gives more than {MAX_LEVELS} lines; "
+             f"drawn {len(levels)} instead",) if coarsened else ()
+    return [(v, [thin(ln) for ln in lns]) for v, lns in eq], notes
+
+
 def compute(layout: Layout, revision: int, resolution: Resolution, estimate_error: bool,
-            step_percent: float = EQUIPOTENTIAL_STEP_PERCENT,
-            n_lines: int = FIELD_LINES) -> LiveResult:
+            step: EquipotentialStep | None = None, n_lines: int = FIELD_LINES) -> LiveResult:
     """Solve and derive the overlay geometry (runs on the worker thread; no Qt)."""
     t0 = time.perf_counter()
+    step = step or EquipotentialStep()
     sol = solver.solve(layout, resolution, estimate_error=estimate_error,
                        capacitance=estimate_error)
-    notes: list[str] = []
-    eq = solver.equipotentials(sol, equipotential_levels(sol, step_percent))
+    eq, notes = contours(sol, step)
     try:
         lines = solver.field_lines(sol, n_lines)
     except Exception as exc:  # noqa: BLE001 - a tracer failure must not hide the solve
         lines = []
-        notes.append(f"field lines could not be traced: {exc}")
-    eq = [(v, [thin(ln) for ln in lns]) for v, lns in eq]
+        notes += (f"field lines could not be traced: {exc}",)
     lines = [thin(ln) for ln in lines]
     raster, emag, box = resample(sol)
     volts = [p.volts for p in sol.parts if p.volts is not None] + [0.0]
-    limits = [p.limit_at_peak_kV_per_mm for p in sol.parts
-              if p.kind != "dielectric" and p.limit_at_peak_kV_per_mm > 0]
-    top = min(limits) if limits else float(np.nanmax(emag))
+    top = field_scale_top(sol, emag)
     return LiveResult(revision, resolution, sol, eq, lines, raster, box, emag,
                       map_rgba(raster, min(volts), max(volts)),
                       map_rgba(emag, 0.0, top, "magma_r", fade_low=True),
-                      time.perf_counter() - t0, tuple(notes))
+                      time.perf_counter() - t0, notes, step,
+                      (min(volts), max(volts)), top)
+
+
+def recontour(res: LiveResult, step: EquipotentialStep) -> LiveResult:
+    """``res`` with its equipotentials redrawn at ``step`` (no new solve; worker thread)."""
+    eq, eq_notes = contours(res.solution, step)
+    notes = tuple(n for n in res.notes if not n.startswith("equipotential step"))
+    return replace(res, equipotentials=eq, step=step, notes=eq_notes + notes)
+
+
+def field_scale_top(sol: Solution, emag: np.ndarray) -> float:
+    """Top of the field-strength colour scale (kV/mm): the smallest limit at any
+    conductor's peak, or the largest field on the raster when no limit applies."""
+    limits = [p.limit_at_peak_kV_per_mm for p in sol.parts
+              if p.kind != "dielectric" and p.limit_at_peak_kV_per_mm > 0]
+    if limits:
+        return float(min(limits))
+    top = float(np.nanmax(emag)) if np.isfinite(emag).any() else 1.0
+    return top if top > 0 else 1.0
 
 
 class _Relay(QObject):
@@ -156,15 +225,15 @@ class _Relay(QObject):
 
 
 class _Job(QRunnable):
-    def __init__(self, relay: _Relay, layout: Layout, revision: int, resolution: Resolution,
-                 estimate_error: bool) -> None:
+    """Runs ``work()`` on the pool's thread and reports through the relay."""
+
+    def __init__(self, relay: _Relay, revision: int, work: Callable[[], LiveResult]) -> None:
         super().__init__()
-        self.relay, self.layout, self.revision = relay, layout, revision
-        self.resolution, self.estimate_error = resolution, estimate_error
+        self.relay, self.revision, self.work = relay, revision, work
 
     def run(self) -> None:
         try:
-            res = compute(self.layout, self.revision, self.resolution, self.estimate_error)
+            res = self.work()
         except LayoutError as exc:
             self.relay.failed.emit(self.revision, str(exc))
         except Exception as exc:  # noqa: BLE001 - reported to the user, never swallowed
@@ -176,10 +245,9 @@ class _Job(QRunnable):
 
 @dataclass
 class _Request:
-    layout: Layout
     revision: int
-    resolution: Resolution
-    estimate_error: bool
+    work: Callable[[], LiveResult]
+    label: str
 
 
 class SolveRunner(QObject):
@@ -206,15 +274,31 @@ class SolveRunner(QObject):
         self.state = "idle"
         self.message = ""
         self.dropped = 0
+        self.step = EquipotentialStep()
 
     # ------------------------------------------------------------------ requests
 
     def request(self, layout: Layout, revision: int, draft: bool = False) -> None:
         """Ask for a solve of ``layout`` (revision ``revision``); ``draft`` while dragging."""
         resolution: Resolution = "draft" if draft else layout.resolution
+        step = self.step
         self.latest_requested = max(self.latest_requested, revision)
-        self._pending = _Request(layout, revision, resolution, not draft)
-        self._set_state("solving", f"solving ({resolution})")
+        self._pending = _Request(revision, lambda: compute(
+            layout, revision, resolution, not draft, step), f"solving ({resolution})")
+        self._set_state("solving", self._pending.label)
+        self._start_next()
+
+    def set_step(self, step: EquipotentialStep) -> None:
+        """Draw the equipotentials at ``step`` from now on; the newest result is redrawn
+        on the worker (no new solve) unless a newer solve is on its way anyway."""
+        self.step = step
+        res = self.latest
+        if res is None or res.step == step or self.busy() \
+                or res.revision < self.latest_requested:
+            return  # _on_done redraws a result that arrives with an older step
+        self._pending = _Request(res.revision, lambda: recontour(res, step),
+                                 "drawing equipotentials")
+        self._set_state("solving", self._pending.label)
         self._start_next()
 
     def report_invalid(self, revision: int, message: str) -> None:
@@ -237,8 +321,7 @@ class SolveRunner(QObject):
             return
         req, self._pending = self._pending, None
         self._running = req.revision
-        self.pool.start(_Job(self._relay, req.layout, req.revision, req.resolution,
-                             req.estimate_error))
+        self.pool.start(_Job(self._relay, req.revision, req.work))
 
     def _finish(self) -> None:
         self._running = None
@@ -253,6 +336,8 @@ class SolveRunner(QObject):
         if self._running is None:
             self._set_state("ready", f"up to date ({res.resolution}, {res.seconds:.1f} s)")
         self.result_ready.emit(res)
+        if res.step != self.step:
+            self.set_step(self.step)  # the step changed while this was being solved
 
     def _on_failed(self, revision: int, message: str) -> None:
         self._finish()
