@@ -10,19 +10,25 @@ and the newest result replaces the overlays and the results table.
 from __future__ import annotations
 
 import numpy as np
-from PySide6.QtCore import QObject, QPointF, QSettings
+from PySide6.QtCore import QObject, QPointF, QSettings, Qt, QTimer
 from PySide6.QtGui import QAction
-from PySide6.QtWidgets import QLabel
+from PySide6.QtWidgets import QLabel, QToolBar
 
 import solver
 from solver.layout import LayoutError
 
-from .overlays import DEFAULT_OFF, OVERLAY_LABELS, OVERLAY_NAMES, FieldOverlays
+from .colour_scale import ColourScale, seen_colours
+from .overlays import DEFAULT_OFF, OVERLAY_LABELS, OVERLAY_NAMES, OVERLAY_SHORT, FieldOverlays
+from .panels.profile_panel import ProfilePanel
 from .panels.results_panel import ResultsPanel
-from .solve_runner import LiveResult, SolveRunner
+from .probes import ProbeLineItem, line_profile
+from .solve_runner import EquipotentialStep, LiveResult, SolveRunner
+from .step_control import StepControl
 
 ZOOM_TO_HOT_SPOT_MM = 30.0
 """Width in mm of the view after clicking a hot spot (or the current width if smaller)."""
+RIGHT_DOCK_PX = 455
+"""Default width of the results and profile docks: the parts table fits without scrolling."""
 STATE_STYLE = {"solving": "color: #7a5b00;", "ready": "color: #2f6b4a;",
                "failed": "color: #b3410e;", "idle": ""}
 
@@ -34,10 +40,24 @@ class LiveView(QObject):
         super().__init__(window)
         self.window = window
         self.settings = settings or window.settings
+        canvas = window.canvas
         self.runner = SolveRunner(self)
-        self.overlays = FieldOverlays(window.canvas.underlay, window.canvas.overlay)
+        self.overlays = FieldOverlays(canvas.underlay, canvas.overlay, canvas)
         self.panel = ResultsPanel()
         self.dock = window.add_results_dock(self.panel, "Results")
+        self.profile = ProfilePanel()
+        self.profile_dock = window.add_results_dock(self.profile, "Profile")
+        window.resizeDocks([self.dock], [RIGHT_DOCK_PX], Qt.Orientation.Horizontal)
+        window.resizeDocks([self.dock, self.profile_dock], [470, 360], Qt.Orientation.Vertical)
+        self.scale = ColourScale(canvas.viewport())
+        self.probe_tool = canvas.tools["probe"]
+        self.probe_line = ProbeLineItem()
+        self.probe_line.setParentItem(canvas.overlay)
+        self.probe_line.setZValue(5.0)
+        self.probe_line.set_segment(None)
+        self._profile_timer = QTimer(self)
+        self._profile_timer.setSingleShot(True)
+        self._profile_timer.timeout.connect(self.update_profile)
         self.status = QLabel("no results yet")
         self.status.setObjectName("solve_state")
         self.probe = QLabel()
@@ -48,10 +68,16 @@ class LiveView(QObject):
         self.shown_revision = -1
         self.actions: dict[str, QAction] = {}
         self._build_menu()
+        self._build_field_bar()
         self.runner.state_changed.connect(self._on_state)
         self.runner.result_ready.connect(self._on_result)
         self.panel.hot_spot_clicked.connect(self.zoom_to)
-        window.canvas.cursor_moved.connect(self.probe_at)
+        canvas.cursor_moved.connect(self.probe_at)
+        canvas.view_changed.connect(self.overlays.place_labels)
+        self.probe_tool.segment_changed.connect(self._on_probe_segment)
+        window.selection.changed.connect(self._on_selection)
+        self.profile.mode_changed.connect(lambda _m: self.schedule_profile())
+        self.profile_dock.visibilityChanged.connect(lambda _v: self.schedule_profile())
         window.document_changed.connect(lambda _r: self.schedule())
         window.interaction_changed.connect(lambda _on: self.schedule())
         window.set_ready_check(self.is_ready)
@@ -101,10 +127,102 @@ class LiveView(QObject):
         self.probe.setText(f"\u03c6 = {phi[0] / 1000:.4g} kV   "
                            f"|E| = {float(np.hypot(*e[0])):.3g} kV/mm")
 
+    def set_step(self, step: EquipotentialStep) -> None:
+        """Draw the equipotential lines at ``step`` (redrawn on the worker)."""
+        self.runner.set_step(step)
+
+    def schedule_profile(self) -> None:
+        """Redraw the profile dock soon: in the next event-loop pass, or at most five
+        times a second while the user drags (the draft results come faster)."""
+        if not self._profile_timer.isActive():
+            self._profile_timer.start(200 if self.window.doc.interacting else 0)
+
+    def update_profile(self) -> None:
+        """Plot the line probe or the selected part's surface field from the newest result."""
+        if not self.profile_dock.isVisible():
+            return
+        res, panel = self.runner.latest, self.profile
+        if res is None:
+            panel.show_message("No results yet.")
+            return
+        sol = res.solution
+        if panel.mode() == "line":
+            seg = self.probe_tool.segment
+            if seg is None:
+                panel.show_message("Choose the line probe (M) and drag a segment across "
+                                   "the field to plot the potential and |E| along it.")
+            else:
+                panel.show_line(line_profile(sol, seg), self._axis_names())
+            return
+        ids = self.window.selection.ids
+        if not ids:
+            panel.show_message("Select a conductor or dielectric to plot the field along "
+                               "its outline.")
+            return
+        name = self.window.doc.part(ids[0]).name
+        traces = [t for t in sol.surfaces if t.part == name and len(t.s_mm) > 1]
+        if traces:
+            panel.show_surface(name, traces)
+        else:
+            panel.show_message(f"{name}: no surface field in the newest result (it was "
+                               "solved before this part existed, or under another name).")
+
+    def _axis_names(self) -> tuple[str, str]:
+        return ("r", "z") if self.window.doc.settings.symmetry == "axisymmetric" else ("x", "y")
+
+    def _on_probe_segment(self, seg) -> None:  # noqa: ANN001 - Segment | None
+        self.probe_line.set_segment(seg)
+        if seg is not None:
+            self.profile.set_mode("line")
+            self.profile_dock.show()
+            self.profile_dock.raise_()
+        self.schedule_profile()
+
+    def _on_selection(self) -> None:
+        if self.window.selection.ids and self.probe_tool.segment is None:
+            self.profile.set_mode("surface")
+        if self.profile.mode() == "surface":
+            self.schedule_profile()
+
     def _on_result(self, res: LiveResult) -> None:
         self.shown_revision = res.revision
         self.overlays.show(res)
         self.panel.show_result(res)
+        self._update_scale()
+        self.schedule_profile()
+
+    def _update_scale(self) -> None:
+        res = self.overlays.result
+        scales = []
+        if res is not None and self.overlays.visible["potential_map"]:
+            lo, hi = res.potential_range_V
+            scales.append(("Potential (kV)", lo / 1000, hi / 1000,
+                           seen_colours("cividis", False), ""))
+        if res is not None and self.overlays.visible["field_map"]:
+            scales.append(("Field strength |E| (kV/mm), darkest at the limit", 0.0,
+                           res.field_top_kV_per_mm, seen_colours("magma_r", True), ""))
+        self.scale.set_scales(scales)
+
+    def _build_field_bar(self) -> None:
+        """A tool bar row of its own: the overlay switches and the equipotential step."""
+        self.step_control = StepControl(self.settings, self._span_V)
+        self.runner.step = self.step_control.step()
+        self.step_control.step_changed.connect(self.set_step)
+        bar = QToolBar("Field view", self.window)
+        bar.setObjectName("field_view_toolbar")
+        bar.setToolButtonStyle(Qt.ToolButtonStyle.ToolButtonTextOnly)
+        bar.addWidget(QLabel(" Show: "))
+        for name in OVERLAY_NAMES:
+            bar.addAction(self.actions[name])
+        bar.addSeparator()
+        bar.addWidget(self.step_control)
+        self.window.addToolBarBreak(Qt.ToolBarArea.TopToolBarArea)
+        self.window.addToolBar(Qt.ToolBarArea.TopToolBarArea, bar)
+        self.field_bar = bar
+
+    def _span_V(self) -> float:
+        res = self.runner.latest
+        return res.potential_range_V[1] - res.potential_range_V[0] if res else 0.0
 
     def _on_state(self, state: str, message: str) -> None:
         text = {"solving": "\u25cc solving\u2026", "ready": "\u25cf up to date",
@@ -121,6 +239,7 @@ class LiveView(QObject):
             menu.addSeparator()
         for name in OVERLAY_NAMES:
             act = QAction(OVERLAY_LABELS[name], self.window)
+            act.setIconText(OVERLAY_SHORT[name])
             act.setCheckable(True)
             default = "false" if name in DEFAULT_OFF else "true"
             on = str(self.settings.value(f"overlays/{name}", default)).lower() == "true"
@@ -134,6 +253,8 @@ class LiveView(QObject):
     def _toggle(self, name: str, on: bool) -> None:
         self.overlays.set_visible(name, on)
         self.settings.setValue(f"overlays/{name}", on)
+        self.overlays.place_labels()
+        self._update_scale()
 
 
 def attach_live_view(window) -> LiveView:  # noqa: ANN001 - MainWindow

@@ -19,16 +19,15 @@ from dataclasses import replace
 
 import numpy as np
 import pytest
+from live_helpers import WAIT_MS, live_window, open_window, wait_settled
 from PySide6.QtCore import QSettings
 
 import solver
 from app.live_view import attach_live_view
-from app.main_window import MainWindow
 from solver.layout import Circle, FixedLimit, Layout, Part, Rect
 
 ROD_V = 10_000.0
 ROD_R = 5.0
-WAIT_MS = 60_000
 
 
 def rod_over_plate(height_mm: float, limit: float = 3.0) -> Layout:
@@ -43,33 +42,6 @@ def image_peak_kV_per_mm(height_mm: float) -> float:
     a, h = ROD_R, height_mm
     s = math.sqrt(h * h - a * a)
     return ROD_V / 1000.0 * s / (a * (h - a) * math.log((h + s) / a))
-
-
-def open_window(qtbot, tmp_path, layout: Layout) -> MainWindow:  # noqa: ANN001
-    """A shown editor window with private settings under ``tmp_path``."""
-    settings = QSettings(str(tmp_path / "settings.ini"), QSettings.Format.IniFormat)
-    w = MainWindow(layout, settings=settings)
-    w.files.confirm_discard = lambda: True  # no modal question when the test closes it
-    qtbot.addWidget(w)
-    w.resize(1200, 800)
-    w.show()
-    qtbot.waitExposed(w)
-    w.canvas.zoom_to_fit()
-    return w
-
-
-def live_window(qtbot, tmp_path, layout: Layout):  # noqa: ANN001, ANN201
-    w = open_window(qtbot, tmp_path, layout)
-    live = attach_live_view(w)
-    wait_settled(qtbot, w)
-    return w, live
-
-
-def wait_settled(qtbot, w) -> None:  # noqa: ANN001
-    """Until the result for the document's current revision is shown."""
-    live = w.live
-    qtbot.waitUntil(lambda: live.shown_revision == w.doc.revision
-                    and not live.runner.busy(), timeout=WAIT_MS)
 
 
 def shown_peak(live) -> float:  # noqa: ANN001
@@ -215,6 +187,8 @@ def test_field_map_is_off_by_default_and_brightest_near_the_rod(qtbot, tmp_path)
     x0, y0, x1, y1 = res.raster_box_mm
     x = x0 + (ix + 0.5) * (x1 - x0) / e.shape[1]
     y = y0 + (iy + 0.5) * (y1 - y0) / e.shape[0]
-    # the strongest field lies in the gap just under the rod (image-charge geometry)
-    assert abs(x) < 3.0 and 10.0 < y < 17.0
+    # the strongest field lies in the gap just under the rod (image-charge geometry); the
+    # field along the rod's underside is nearly flat, so on a draft raster the brightest
+    # pixel may sit anywhere below the rod, |x| < its radius
+    assert abs(x) < ROD_R and 10.0 < y < 17.0
     assert np.nanmax(e) == pytest.approx(image_peak_kV_per_mm(20.0), rel=0.15)
