@@ -32,6 +32,7 @@ from app.plotting import ReportOverlays, equipotential_levels, nice_step
 from app.report import FIGURE_DPI, ReportError, render_figure, write_report
 from app.report_numbers import fmt_num
 from app.report_tables import charge_rows, part_rows, summary_rows, view_decimals
+from solver.layout import layout_to_json, parse_layout
 
 WHEN = datetime(2026, 3, 14, 9, 30, tzinfo=timezone.utc)
 MM_PER_INCH = 25.4
@@ -246,3 +247,28 @@ def test_readme_carries_the_caution_word_for_word() -> None:
     # the product's safety rule: README, About box and every report say the same thing
     readme = (Path(__file__).resolve().parents[2] / "README.md").read_text(encoding="utf-8")
     assert squash(CAUTION) in squash(readme.replace("*", ""))
+
+
+def test_a_peak_on_a_square_corner_is_flagged_on_the_figure() -> None:
+    # near a convex right-angled conductor corner the field grows as rho^(-1/3) without
+    # bound (J. D. Jackson, Classical Electrodynamics, 3rd ed., sec. 2.11 -- from memory),
+    # so the printed peak depends on the grid and the figure must say so
+    layout = parse_layout({
+        "stresslens_layout": 1, "resolution": "draft",
+        "parts": [{"name": "Bar", "kind": "electrode", "volts": 5000,
+                   "shape": {"type": "rect", "min": [-10, 10], "max": [10, 20]}},
+                  {"name": "Plate", "kind": "electrode", "volts": 0,
+                   "shape": {"type": "rect", "min": [-40, -5], "max": [40, 0]}}]})
+    sol = solver.solve(layout, estimate_error=False)
+    assert sol.part("Bar").sharp_corner
+    text = " ".join(t.get_text() for t in render_figure(sol, ReportOverlays(
+        field_lines=False), "bar", WHEN).texts)
+    assert "sharp corner" in squash(text)
+    rounded = solver.solve(parse_layout({**layout_to_json(layout), "parts": [
+        {**layout_to_json(layout)["parts"][0],
+         "shape": {"type": "rect", "min": [-10, 10], "max": [10, 20], "corner_radius": 3}},
+        layout_to_json(layout)["parts"][1]]}), estimate_error=False)
+    assert not rounded.part("Bar").sharp_corner
+    text = " ".join(t.get_text() for t in render_figure(rounded, ReportOverlays(
+        field_lines=False), "bar", WHEN).texts)
+    assert "sharp corner" not in squash(text)
