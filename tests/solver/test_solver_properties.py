@@ -41,8 +41,8 @@ from solver.layout import (
 
 CELL_MM = 20.0
 """Each part lives in its own cell of this size (parts at most 12 mm across)."""
-DEFAULT_EXAMPLES = 16
-SUPERPOSITION_EXAMPLES = 6
+DEFAULT_EXAMPLES = 12
+SUPERPOSITION_EXAMPLES = 5
 SLOW_FACTOR = 10
 
 volts = st.floats(-50_000.0, 50_000.0, allow_nan=False).map(lambda v: round(v, 3))
@@ -63,7 +63,8 @@ def shapes(draw: st.DrawFn, cx: float, cy: float):  # noqa: ANN201 - a solver sh
     n = draw(st.integers(3, 8))
     angles = sorted(draw(st.lists(st.floats(0.0, 2 * math.pi), min_size=n, max_size=n,
                                   unique=True)))
-    if min(np.diff(angles + [angles[0] + 2 * math.pi])) < 0.3:
+    gaps = np.diff(angles + [angles[0] + 2 * math.pi])
+    if gaps.min() < 0.3 or gaps.max() > 0.9 * math.pi:  # keep (x, y) inside: a simple outline
         angles = [2 * math.pi * k / n for k in range(n)]
     radii = [draw(st.floats(2.0, 5.0)) for _ in range(n)]
     pts = tuple((x + r * math.cos(a), y + r * math.sin(a))
