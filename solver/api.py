@@ -164,10 +164,21 @@ def solve(layout: Layout, resolution: Resolution | None = None, estimate_error: 
 
 
 def limit_function(layout: Layout):
-    """``f(radius_mm) -> limit kV/mm`` for the layout's limit setting."""
+    """``f(radius_mm, xy_mm=None, normal=None) -> limit kV/mm`` for the layout's limit.
+
+    With Peek's law in an axisymmetric layout the position and normal give the second
+    principal curvature (the swept circle), see :func:`solver.air.peek_onset_field_kV_per_mm`.
+    """
     lim = layout.limit
     if isinstance(lim, FixedLimit):
-        return lambda r: np.full(np.shape(r), lim.kV_per_mm)
+        return lambda r, xy=None, normal=None: np.full(np.shape(r), lim.kV_per_mm)
     from .air import peek_onset_field_kV_per_mm
 
-    return lambda r: peek_onset_field_kV_per_mm(np.asarray(r, float), layout.symmetry, lim)
+    def peek(r: np.ndarray, xy: np.ndarray | None = None,
+             normal: np.ndarray | None = None) -> np.ndarray:
+        return peek_onset_field_kV_per_mm(
+            np.asarray(r, float), layout.symmetry, lim,
+            r_mm=None if xy is None else xy[:, 0],
+            normal_r=None if normal is None else normal[:, 0])
+
+    return peek

@@ -70,7 +70,12 @@ class Grid:
 
 
 def resolution_settings(resolution: Resolution) -> tuple[float, float, float, float | None]:
-    """(cells per length, growth, cells across ROI, fixed finest spacing mm or None)."""
+    """(cells per length, growth, cells across ROI, finest spacing mm or None).
+
+    A numeric resolution is the finest spacing: the outline where the local length is
+    smallest gets exactly that spacing, every other outline point the same multiple of
+    its local length (so the grading pattern of a named resolution is kept).
+    """
     if isinstance(resolution, str):
         n, g, nroi = RESOLUTION_SETTINGS[resolution]
         return n, g, nroi, None
@@ -93,11 +98,53 @@ def max_unknowns() -> int:
     return max(10_000, int(0.5 * avail / BYTES_PER_UNKNOWN))
 
 
+class _TooLarge(Exception):
+    """Internal: the grid would exceed the node cap (``nodes`` is a lower bound)."""
+
+    def __init__(self, nodes: int) -> None:
+        super().__init__(nodes)
+        self.nodes = nodes
+
+
 def build_grid(layout: Layout, outlines: tuple[PartOutline, ...],
                resolution: Resolution | None = None, coarsen: float = 1.0,
                unknown_cap: int | None = None) -> Grid:
-    """The grid for a layout at a resolution; ``coarsen`` > 1 scales every spacing up."""
+    """The grid for a layout at a resolution; ``coarsen`` > 1 scales every spacing up.
+
+    Raises LayoutError, naming a finest spacing that fits, when the grid would need more
+    memory than the machine has; nothing large is allocated before that check.
+    """
     res = layout.resolution if resolution is None else resolution
+    cap = unknown_cap or max_unknowns()
+    try:
+        return _grid(layout, outlines, res, coarsen, cap)
+    except _TooLarge as exc:
+        fit = _spacing_that_fits(layout, outlines, res, coarsen, cap)
+        raise LayoutError(f"resolution {res!r} needs {exc.nodes:,} grid nodes or more, "
+                          f"more than the {cap:,} that fit in this machine's memory; a "
+                          f"finest spacing of {fit:.3g} mm fits") from None
+
+
+def _spacing_that_fits(layout: Layout, outlines: tuple[PartOutline, ...], res: Resolution,
+                       coarsen: float, cap: int) -> float:
+    """Bisect (in log space) for the finest spacing whose grid fits in half the cap."""
+    size = max(b - a for a, b in zip(_roi(outlines)[:2], _roi(outlines)[2:], strict=True))
+    lo = float(res) * coarsen if not isinstance(res, str) else size * 1e-6
+    hi = size / 10.0
+    for _ in range(12):
+        mid = math.sqrt(lo * hi)
+        try:
+            _grid(layout, outlines, mid, 1.0, cap // 2)
+            hi = mid
+        except _TooLarge:
+            lo = mid
+        if hi / lo < 1.1:
+            break
+    return hi
+
+
+def _grid(layout: Layout, outlines: tuple[PartOutline, ...], res: Resolution, coarsen: float,
+          cap: int) -> Grid:
     n_per, growth, n_roi, fixed = resolution_settings(res)
     pts, h_pts = _surface_requests(layout, outlines, n_per / coarsen, n_roi / coarsen,
                                    None if fixed is None else fixed * coarsen)
@@ -106,25 +153,21 @@ def build_grid(layout: Layout, outlines: tuple[PartOutline, ...],
     h_roi = size / (n_roi / coarsen)
     axisym = layout.symmetry == "axisymmetric"
     lo, hi, outer, volts, centre = _domain(layout, (x0, y0, x1, y1), size, axisym)
-    cap = unknown_cap or max_unknowns()
-    axis_cap = max(1000, int(math.sqrt(cap) * 8))
     band = BAND_BY_RESOLUTION.get(res, BAND_CELLS) if isinstance(res, str) else BAND_CELLS
-    xs = _axis(lo[0], hi[0], pts[:, 0], h_pts, growth, h_roi, (x0, x1), axis_cap, res, cap, band)
-    ys = _axis(lo[1], hi[1], pts[:, 1], h_pts, growth, h_roi, (y0, y1), axis_cap, res, cap, band)
+    try:
+        xs = _axis(lo[0], hi[0], pts[:, 0], h_pts, growth, h_roi, (x0, x1), cap // 2, band)
+    except _TooLarge as exc:
+        raise _TooLarge(2 * exc.nodes) from None
+    try:
+        ys = _axis(lo[1], hi[1], pts[:, 1], h_pts, growth, h_roi, (y0, y1), cap // len(xs),
+                   band)
+    except _TooLarge as exc:
+        raise _TooLarge(len(xs) * exc.nodes) from None
     n = len(xs) * len(ys)
     if n > cap:
-        raise _too_large(res, n, cap)
+        raise _TooLarge(n)
     return Grid(x=xs, y=ys, outer=outer, outer_volts=volts, axisymmetric=axisym,
                 roi=(x0, y0, x1, y1), centre=centre, surface_spacing=float(h_pts.min()))
-
-
-def _too_large(res: Resolution, n: int, cap: int) -> LayoutError:
-    if isinstance(res, str):
-        hint = "choose a coarser resolution (draft), or give a finest spacing in mm"
-    else:
-        hint = f"a finest spacing of about {res * math.sqrt(n / cap) * 1.3:.3g} mm fits"
-    return LayoutError(f"resolution {res!r} needs about {n:,} grid nodes, more than the "
-                       f"{cap:,} that fit in this machine's memory; {hint}")
 
 
 def _roi(outlines: tuple[PartOutline, ...]) -> tuple[float, float, float, float]:
@@ -177,12 +220,15 @@ def _surface_requests(layout: Layout, outlines: tuple[PartOutline, ...], n_per: 
             gap = _gap_to_others(pts, polys, k)
             length = np.minimum(loc, gap)
             all_pts.append(pts)
-            all_h.append(length / n_per if fixed is None else np.full(len(pts), fixed))
+            all_h.append(length)
     pts = np.vstack(all_pts)
-    h = np.concatenate(all_h)
+    length = np.maximum(np.concatenate(all_h), size * 1e-6 * n_per)
     if fixed is None:
-        h = np.clip(h, size * 1e-6, size / n_roi)
-    return pts, h
+        h = length / n_per
+    else:
+        # a spacing in mm is the finest one: the grading pattern stays, its scale is set
+        h = fixed * length / length.min()
+    return pts, np.minimum(h, size / n_roi)
 
 
 def _densify(ring: np.ndarray, local: np.ndarray, step: float) -> tuple[np.ndarray, np.ndarray]:
@@ -253,9 +299,11 @@ def vertex_radius(ring: np.ndarray) -> np.ndarray:
 
 
 def _axis(lo: float, hi: float, feat: np.ndarray, h_feat: np.ndarray, growth: float,
-          h_roi: float, roi: tuple[float, float], cap: int, res: Resolution,
-          total_cap: int, band: float = 0.0) -> np.ndarray:
-    """March nodes from lo to hi with the cone-envelope spacing (see module docstring)."""
+          h_roi: float, roi: tuple[float, float], cap: int, band: float = 0.0) -> np.ndarray:
+    """March nodes from lo to hi with the cone-envelope spacing (see module docstring).
+
+    Raises ``_TooLarge`` as soon as more than ``cap`` nodes would be needed.
+    """
     order = np.argsort(h_feat)
     feat, h_feat = feat[order], h_feat[order]
     keep = _thin(feat, h_feat)
@@ -276,7 +324,7 @@ def _axis(lo: float, hi: float, feat: np.ndarray, h_feat: np.ndarray, growth: fl
         x += h
         xs.append(x)
         if len(xs) > cap:
-            raise _too_large(res, len(xs) ** 2, total_cap)
+            raise _TooLarge(len(xs))
     if hi - x > 1e-12 * max(1.0, abs(hi)):
         if len(xs) > 1 and hi - x < 0.5 * h:
             xs[-1] = 0.5 * (xs[-2] + hi)

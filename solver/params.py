@@ -6,8 +6,10 @@ relative.
 
 ============== ====================================================================
 ``radius``     circle radius; for a path (a wire) half its width, the wire radius
-``corner_radius`` rect corner radius; for a polygon *every* vertex gets this radius
-               (reading it gives the largest vertex radius)
+``corner_radius`` rect corner radius; for a polygon the radius of every vertex that
+               is already rounded, or of every vertex when none is (in an
+               axisymmetric layout never a vertex on the axis); reading it gives
+               the largest vertex radius
 ``width``      full extent along x: rect width, an ellipse's first diameter 2a
                (along its own axis), a path's width, a polygon stretched in x
 ``height``     full extent along y: rect height, an ellipse's second diameter 2b, a
@@ -154,8 +156,10 @@ def _changed(layout: Layout, part: Part, param: str, v: float) -> Part:
         if v < 0:
             raise LayoutError(f"part '{part.name}': corner_radius must not be negative, "
                               f"not {v:g} mm")
-        if isinstance(s, (Rect, Polygon)):
+        if isinstance(s, Rect):
             return replace(part, shape=replace(s, corner_radius=v))
+        if isinstance(s, Polygon):
+            return replace(part, shape=replace(s, corner_radius=_polygon_radii(layout, s, v)))
         raise _not_for(part, param, "rects and polygons")
     if param in ("width", "height"):
         _positive(part, param, v)
@@ -166,6 +170,16 @@ def _changed(layout: Layout, part: Part, param: str, v: float) -> Part:
     pts[k] = (v, pts[k][1]) if axis == "x" else (pts[k][0], v)
     moved: Shape = replace(s, points=tuple(pts))  # type: ignore[arg-type]
     return replace(part, shape=moved)
+
+
+def _polygon_radii(layout: Layout, s: Polygon, v: float) -> float | tuple[float, ...]:
+    """Radius ``v`` at the rounded vertices (all when none is), none on the axis."""
+    cr = s.corner_radius
+    if isinstance(cr, tuple) and any(r > 0 for r in cr):
+        return tuple(v if r > 0 else 0.0 for r in cr)
+    if layout.symmetry == "axisymmetric" and any(abs(x) <= 1e-12 for x, _ in s.points):
+        return tuple(0.0 if abs(x) <= 1e-12 else v for x, _ in s.points)
+    return v
 
 
 def _resized(layout: Layout, part: Part, param: str, v: float) -> Shape:

@@ -16,7 +16,7 @@ import numpy as np
 from scipy.interpolate import RegularGridInterpolator
 
 from .discretize import NODE, OUTSIDE, System
-from .grid import vertex_radius
+from .grid import smooth_on_axis, vertex_radius
 from .solution import HotSpot, Solution, SurfaceTrace
 from .surface import RingSamples
 
@@ -77,10 +77,18 @@ def sample(solution: Solution, points_mm: np.ndarray) -> tuple[np.ndarray, np.nd
     return phi, np.column_stack([ex, ey])
 
 
-def radius_at(ring: np.ndarray, xy: np.ndarray, edge_of: np.ndarray | None = None
-              ) -> np.ndarray:
-    """Signed radius of curvature (mm) of the ring at sample points (nearest edge)."""
+def radius_at(ring: np.ndarray, xy: np.ndarray, edge_of: np.ndarray | None = None,
+              axisymmetric: bool = False) -> np.ndarray:
+    """Signed radius of curvature (mm) of the ring at sample points (nearest edge).
+
+    In axisymmetric layouts a vertex where the outline leaves the axis square is smooth
+    (the tip of a sphere): it takes its neighbours' radius, not that of a corner.
+    """
     rv = vertex_radius(ring)
+    if axisymmetric:
+        smooth = smooth_on_axis(ring)
+        nb = np.where(np.abs(np.roll(rv, 1)) > 0, np.roll(rv, 1), np.roll(rv, -1))
+        rv = np.where(smooth, nb, rv)
     nxt = np.roll(rv, -1)
     edge_r = np.where(np.abs(rv) > np.abs(nxt), rv, nxt)  # straight edge next to an arc
     same = np.sign(rv) == np.sign(nxt)
@@ -109,12 +117,14 @@ def _nearest_edge(ring: np.ndarray, xy: np.ndarray) -> np.ndarray:
     return best
 
 
-def make_trace(name: str, rs: RingSamples, ring: np.ndarray, limit_fn) -> SurfaceTrace:
+def make_trace(name: str, rs: RingSamples, ring: np.ndarray, limit_fn,
+               axisymmetric: bool = False) -> SurfaceTrace:
     """A SurfaceTrace from ring samples; ``limit_fn(radius_mm) -> kV/mm``."""
-    radius = radius_at(ring, rs.xy_mm, rs.edge)
+    radius = radius_at(ring, rs.xy_mm, rs.edge, axisymmetric)
     E = np.abs(rs.En_V_per_mm) / 1000.0
     return SurfaceTrace(part=name, ring=rs.ring, s_mm=rs.s_mm, xy_mm=rs.xy_mm,
-                        normal=rs.normal, E_kV_per_mm=E, limit_kV_per_mm=limit_fn(radius),
+                        normal=rs.normal, E_kV_per_mm=E,
+                        limit_kV_per_mm=limit_fn(radius, rs.xy_mm, rs.normal),
                         radius_mm=radius)
 
 

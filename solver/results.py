@@ -34,8 +34,9 @@ def summarise(pl: PreparedLayout, volts: np.ndarray, u: np.ndarray, phi: np.ndar
     layout, system = pl.layout, pl.system
     limit_fn = limit_function(layout)
     samples = conductor_samples(system, pl.outlines, phi, volts)
+    axisym = system.grid.axisymmetric
     traces = [make_trace(layout.parts[rs.part].name, rs, pl.outlines[rs.part].rings[rs.ring],
-                         limit_fn) for rs in samples]
+                         limit_fn, axisym) for rs in samples]
     charges = charges_from_samples(len(layout.parts), samples, system.grid.axisymmetric)
     partial = Solution(layout=layout, x_mm=system.grid.x, y_mm=system.grid.y, phi=phi,
                        Ex_kV_per_mm=ex, Ey_kV_per_mm=ey, conductor=system.conductor,
@@ -175,9 +176,10 @@ def _outside_trace(name: str, r: int, ring: np.ndarray, sol: Solution, g, limit_
         return None
     cum, _ = ring_arclength(ring)
     s = cum + 0.5 * length
-    radius = radius_at(ring, mid[ok], np.flatnonzero(ok))
+    radius = radius_at(ring, mid[ok], np.flatnonzero(ok), sol.layout.symmetry == "axisymmetric")
     return SurfaceTrace(part=name, ring=r, s_mm=s[ok], xy_mm=mid[ok], normal=normal[ok],
-                        E_kV_per_mm=np.hypot(*E[ok].T), limit_kV_per_mm=limit_fn(radius),
+                        E_kV_per_mm=np.hypot(*E[ok].T),
+                        limit_kV_per_mm=limit_fn(radius, mid[ok], normal[ok]),
                         radius_mm=radius)
 
 

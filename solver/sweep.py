@@ -41,6 +41,9 @@ from .executors import SerialExecutor, StepExecutor
 from .layout import Layout, Resolution
 from .params import apply_param, check_param_name, param_unit, param_value
 
+NOT_RUN = "not run: the sweep was cancelled"
+"""The message of a step a cancelled sweep never started."""
+
 Progress = Callable[[int, int], None]
 """``progress(done, total)``: steps finished so far and the steps planned."""
 
@@ -216,7 +219,7 @@ def sweep(layout: Layout, part: str, param: str, values: Sequence[float],
         if progress is not None:
             progress(len(found), len(tasks))
     stopped = len(found) < len(tasks)
-    steps = tuple(found.get(i, StepResult(value=t[0], error="not run: the sweep was cancelled"))
+    steps = tuple(found.get(i, StepResult(value=t[0], error=NOT_RUN))
                   for i, t in enumerate(tasks))
     return SweepResult(part=part, param=param, unit=param_unit(param), steps=steps,
                        cancelled=stopped, executor=ex.name,

@@ -146,9 +146,6 @@ def test_solved_sphere_tip_carries_peeks_sphere_limit():
     assert _limit_near(sol, "Rod", (1.25, 50.16)) == pytest.approx(expected, rel=0.01)
 
 
-@pytest.mark.xfail(strict=True, reason="where an arc meets the axis the drawn outline turns "
-                   "by 90 degrees (a sharp vertex, radius 0), so post.radius_at gives the edges "
-                   "beside it an infinite radius and the tip's point the flat-surface limit")
 def test_solved_sphere_tip_on_the_axis_carries_peeks_sphere_limit():
     # as above, at the tip's point on the axis, where the peak field sits
     sol = solve(rod_layout(), estimate_error=False, capacitance=False)
@@ -157,9 +154,6 @@ def test_solved_sphere_tip_on_the_axis_carries_peeks_sphere_limit():
     assert _limit_near(sol, "Rod", (0.0, 50.0)) == pytest.approx(expected, rel=0.01)
 
 
-@pytest.mark.xfail(strict=True, reason="the solver does not yet pass each outline point's "
-                   "distance from the axis and normal to the Peek limit (solver/api.py "
-                   "limit_function), so a rod's side is judged as a flat surface")
 def test_solved_rod_side_carries_the_equivalent_sphere_limit():
     # side of a 5 mm rod: swept-circle curvature 1/5 mm, outline straight; our rule takes
     # Peek's sphere form at 2/(sum of curvatures) = 10 mm (solver/air.py docstring)
