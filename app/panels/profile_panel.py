@@ -31,7 +31,8 @@ class ProfilePanel(QWidget):
 
     ``series`` holds the arrays last plotted, by name (``"E"``, ``"V"``, ``"limit"``;
     with a ring number for outlines with holes), as (abscissa mm, values) in the units
-    on the axes: kV/mm for fields, kV for the potential.
+    on the axes: kV/mm for fields, kV for the potential.  Along the probe, |E| is NaN
+    (not drawn) inside conductors and in the grid cells at their surfaces.
     """
 
     mode_changed = Signal(str)
@@ -83,7 +84,8 @@ class ProfilePanel(QWidget):
     def show_line(self, prof: LineProfile, names: tuple[str, str] = ("x", "y")) -> None:
         """|E| (kV/mm, left axis) and the potential (kV, right axis) from A to B."""
         self._reset()
-        s, e, v = prof.s_mm, prof.E_kV_per_mm, prof.phi_V / 1000.0
+        s, v = prof.s_mm, prof.phi_V / 1000.0
+        e = np.where(prof.inside, np.nan, prof.E_kV_per_mm)  # not resolved at a surface
         self.series = {"E": (s, e), "V": (s, v)}
         ax, axv = self.ax, self.ax_v
         for lo, hi in _runs(s, prof.inside):
@@ -99,8 +101,7 @@ class ProfilePanel(QWidget):
         ax.set_ylim(bottom=0.0)
         ax.set_xlim(s[0], s[-1])
         (a0, a1), (b0, b1) = prof.segment
-        clear = np.where(prof.inside, np.nan, e)
-        k = int(np.nanargmax(clear)) if np.isfinite(clear).any() else 0
+        k = int(np.nanargmax(e)) if np.isfinite(e).any() else 0
         self.info.setText(
             f"A ({a0:.2f}, {a1:.2f}) mm \u2192 B ({b0:.2f}, {b1:.2f}) mm, {s[-1]:.2f} mm long "
             f"({names[0]}, {names[1]}).  Largest |E| {e[k]:.3g} kV/mm at {s[k]:.2f} mm from A; "

@@ -50,6 +50,14 @@ def charge_text(q: float | None, axisymmetric: bool) -> str:
     return f"{q * 1e9:.4g} {'nC' if axisymmetric else 'nC/m'}"
 
 
+def round_off_zero(q: float | None, scale: float) -> float | None:
+    """0 for a charge below 1e-9 of the largest one (solver round-off on a floating part
+    of zero net charge), else ``q``."""
+    if q is None or not math.isfinite(q):
+        return q
+    return 0.0 if abs(q) <= 1e-9 * scale else q
+
+
 def capacitance_unit(axisymmetric: bool) -> tuple[str, float]:
     """('pF/m', 1e12) for a planar layout (F/m), ('pF', 1e12) for an axisymmetric one (F)."""
     return ("pF" if axisymmetric else "pF/m"), 1.0e12
@@ -122,8 +130,10 @@ class ResultsPanel(QWidget):
         self.table.setColumnHidden(5, sol.layout.limit.type == "fixed")
         italic = QFont()
         italic.setItalic(True)
+        q_big = max((abs(p.charge) for p in sol.parts
+                     if p.charge is not None and math.isfinite(p.charge)), default=0.0)
         for row, p in enumerate(sol.parts):
-            q = charge_text(p.charge, axisym)
+            q = charge_text(round_off_zero(p.charge, q_big), axisym)
             cells = (
                 p.name,
                 "\u2013" if p.volts is None else f"{p.volts / 1000:.4g}",
@@ -167,8 +177,6 @@ class ResultsPanel(QWidget):
         self.cap_label.setText(f"Capacitance matrix ({unit}): charge on the row's "
                                f"conductor per volt on the column's, the others at 0 V.")
         self.cap_table.show()
-        self.cap_table.setMaximumHeight(self.cap_table.horizontalHeader().height()
-                                        + 22 * len(names) + 4)
         self.cap_table.setRowCount(len(names))
         self.cap_table.setColumnCount(len(names))
         self.cap_table.setHorizontalHeaderLabels(names)
@@ -179,6 +187,10 @@ class ResultsPanel(QWidget):
                 item.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
                 item.setToolTip(f"C[{names[i]}, {names[j]}] = {c[i, j] * scale:.6g} {unit}")
                 self.cap_table.setItem(i, j, item)
+        t = self.cap_table
+        t.resizeRowsToContents()
+        t.setFixedHeight(t.horizontalHeader().sizeHint().height() + 2 * t.frameWidth()
+                         + sum(t.rowHeight(i) for i in range(len(names))) + 2)
 
     def _hot_spots(self, res: LiveResult) -> None:
         sol = res.solution
