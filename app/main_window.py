@@ -31,6 +31,7 @@ from .panels.parts_list import PartsPanel
 from .panels.properties import PropertiesPanel
 from .selection import Selection
 from .snapping import Snapper
+from .sweep_action import add_sweep_action
 from .tools import ToolContext, ToolOptions
 from .window_actions import build_actions
 
@@ -68,6 +69,7 @@ class MainWindow(QMainWindow):
         self._build_docks()
         self._build_status_bar()
         self.actions_ = build_actions(self)
+        add_sweep_action(self)
         self._connect()
         self.setWindowIcon(icon(APP_ICON))
         self.resize(1400, 900)

@@ -88,9 +88,21 @@ def test_rounded_rect_area_follows_the_corner_radius() -> None:
         assert area == pytest.approx(20 * 20 - (4 - math.pi) * r * r, rel=2e-3)
 
 
-def test_polygon_corner_radius_sets_every_vertex() -> None:
+def test_polygon_corner_radius_sets_the_rounded_vertices() -> None:
     new = apply_param(_layout(), "plate", "corner_radius", 1.5)
-    assert new.part("plate").shape.corner_radius == 1.5
+    assert new.part("plate").shape.corner_radius == (0.0, 1.5, 1.5, 0.0)
+    square = apply_param(apply_param(_layout(), "plate", "corner_radius", 0.0), "plate",
+                         "corner_radius", 0.5)
+    assert square.part("plate").shape.corner_radius == 0.5  # none rounded: every vertex
+
+
+def test_axisymmetric_polygon_is_never_rounded_on_the_axis() -> None:
+    layout = parse_layout({
+        "stresslens_layout": 1, "symmetry": "axisymmetric",
+        "parts": [{"name": "rod", "kind": "electrode", "volts": 1,
+                   "shape": {"type": "polygon", "points": [[0, 0], [5, 0], [5, 50], [0, 50]]}}]})
+    new = apply_param(layout, "rod", "corner_radius", 2.0)
+    assert new.part("rod").shape.corner_radius == (0.0, 2.0, 2.0, 0.0)
 
 
 def test_polygon_stretch_scales_the_area() -> None:
