@@ -24,6 +24,7 @@ from .commands import (
     MirrorPartsCommand,
     RemovePartsCommand,
 )
+from .help_keys import show_keys
 from .icons import icon
 from .panels.fields import NumberField
 
@@ -52,6 +53,7 @@ def build_actions(w: MainWindow) -> dict[str, QAction]:
     """Create every action, menu and tool bar of ``w``; return the actions by name."""
     acts = _file_actions(w) | _edit_actions(w) | _view_actions(w) | _tool_actions(w)
     acts["about"] = _action(w, "&About Stresslens", lambda: show_about(w), "about")
+    acts["keys"] = _action(w, "&Keys and mouse\u2026", lambda: show_keys(w), "keys", "F1")
     _menus(w, acts)
     _toolbars(w, acts)
     return acts
@@ -148,7 +150,7 @@ def _menus(w: MainWindow, a: dict[str, QAction]) -> None:
     m.addSeparator()
     m.addAction(a["snap"])
     w.view_menu = m
-    bar.addMenu("&Help").addAction(a["about"])
+    bar.addMenu("&Help").addActions([a["keys"], a["about"]])
 
 
 def _fill_recent(w: MainWindow) -> None:

@@ -113,3 +113,19 @@ def test_every_action_has_one_of_our_icons(qtbot, tmp_path: Path) -> None:  # no
         ink = sum(img.pixelColor(x, y).alpha() > 0 for x in range(32) for y in range(32))
         assert 20 < ink < 32 * 32, name
         assert img.pixelColor(0, 0) == QColor(0, 0, 0, 0) or name == "stresslens", name
+
+
+def test_keys_help_lists_the_shortcuts_of_the_actions(qtbot, tmp_path: Path,
+                                                      monkeypatch) -> None:  # noqa: ANN001
+    # common practice, no source: the key list is read from the actions, so it stays true
+    from editor_window import open_window
+    from PySide6.QtWidgets import QMessageBox
+    seen: list[str] = []
+    monkeypatch.setattr(QMessageBox, "information",
+                        staticmethod(lambda p, t, text: seen.append(text)))
+    w = open_window(qtbot, tmp_path)
+    w.actions_["keys"].trigger()
+    for key, what in (("Ctrl+Z", "Undo"), ("Ctrl+D", "Duplicate"), ("C", "Circle"),
+                      ("Shift+R", "Corner radius")):
+        assert f"<b>{key}</b></td><td>{what}" in seen[0], key
+    assert "Space + drag" in seen[0]
