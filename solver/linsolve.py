@@ -32,6 +32,9 @@ needs over 100 BiCGStab iterations (see the benchmark)."""
 FALLBACK_DIRECT_LIMIT = 1_500_000
 """Up to this size a stalled AMG solve is finished by factorisation (memory permitting)."""
 RTOL = 1e-8
+SCALED_FACTOR = 1e-2
+"""The scaled system is iterated to 1/100 of RTOL: two more BiCGStab steps that bring
+multigrid to agree with the direct solve to about 1e-7 of the applied voltage."""
 
 
 F = TypeVar("F", bound=Callable[..., Any])
@@ -72,42 +75,60 @@ class SolveInfo:
 
 @dataclass(frozen=True)
 class Prepared:
-    """A matrix ready to solve with: its LU factors or its multigrid hierarchy."""
+    """A matrix ready to solve with: its LU factors or its multigrid hierarchy.
+
+    The multigrid path works on the symmetrically scaled system
+    :math:`\tilde A = D^{-1/2} A D^{-1/2}`, :math:`D = \operatorname{diag} A`: rows of
+    nodes a tiny cut distance from an outline carry coefficients up to :math:`10^3`
+    times the others, and an unscaled residual norm is dominated by them (it stopped
+    BiCGStab while the rest of the grid was still 1e-3 off).  Convergence is judged on
+    the scaled residual; the returned residual is that of the original system.
+    """
 
     A: sp.csr_matrix
     method: str
     factor: Any
+    scale: np.ndarray | None = None
 
     def solve(self, b: np.ndarray, x0: np.ndarray | None = None,
               rtol: float = RTOL) -> tuple[np.ndarray, SolveInfo]:
         """Solve :math:`A x = b`; returns x and a :class:`SolveInfo`."""
-        bnorm = float(np.linalg.norm(b))
+        bnorm = _norm(b)
         if bnorm == 0.0:
             return np.zeros_like(b), SolveInfo(self.method, 0, 0.0, True)
         if self.method == "direct":
             x = self.factor.solve(b)
-            res = float(np.linalg.norm(b - self.A @ x)) / bnorm
+            res = _norm(b - self.A @ x) / bnorm
             return x, SolveInfo("direct", 1, res, res < 1e-6)
+        d = self.scale
+        bs = d * b
+        xs0 = None if x0 is None else x0 / d
         history: list[float] = []
-        x = self.factor.solve(b, x0=x0, tol=rtol, maxiter=400, accel="bicgstab",
-                              residuals=history)
-        res = float(np.linalg.norm(b - self.A @ x)) / bnorm
-        if res > rtol * 10:
+        xs = self.factor.solve(bs, x0=xs0, tol=rtol * SCALED_FACTOR, maxiter=400,
+                               accel="bicgstab", residuals=history)
+        sres = _norm(bs - self.factor.levels[0].A @ xs) / _norm(bs)
+        if sres > rtol * 10:
             # one restart from the current iterate usually finishes a stalled BiCGStab
             more: list[float] = []
-            x = self.factor.solve(b, x0=x, tol=rtol, maxiter=400, accel="gmres",
-                                  residuals=more)
+            xs = self.factor.solve(bs, x0=xs, tol=rtol, maxiter=400, accel="gmres",
+                                   residuals=more)
             history += more
-            res = float(np.linalg.norm(b - self.A @ x)) / bnorm
-        ok = res <= rtol * 10
+            sres = _norm(bs - self.factor.levels[0].A @ xs) / _norm(bs)
+        x = d * xs
+        res = _norm(b - self.A @ x) / bnorm
+        ok = sres <= rtol * 10
         if not ok and self.A.shape[0] <= FALLBACK_DIRECT_LIMIT:
-            log.warning("AMG stalled at relative residual %.2e; factorising instead", res)
+            log.warning("AMG stalled at scaled residual %.2e; factorising instead", sres)
             x = spla.splu(self.A.tocsc(), permc_spec="COLAMD").solve(b)
-            res = float(np.linalg.norm(b - self.A @ x)) / bnorm
+            res = _norm(b - self.A @ x) / bnorm
             return x, SolveInfo("direct after amg", len(history), res, res < 1e-6, history)
         if not ok:
-            log.warning("AMG solve stopped at relative residual %.2e", res)
+            log.warning("AMG solve stopped at scaled residual %.2e", sres)
         return x, SolveInfo("amg", len(history), res, ok, history)
+
+
+def _norm(v: np.ndarray) -> float:
+    return float(np.sqrt(np.dot(v, v)))
 
 
 def prepare(A: sp.csr_matrix, method: str | None = None) -> Prepared:
@@ -119,6 +140,8 @@ def prepare(A: sp.csr_matrix, method: str | None = None) -> Prepared:
         return Prepared(A, "direct", spla.splu(A.tocsc(), permc_spec="COLAMD"))
     import pyamg
 
-    ml = pyamg.ruge_stuben_solver(A.tocsr(), strength=("classical", {"theta": 0.25}),
-                                  max_coarse=500)
-    return Prepared(A, "amg", ml)
+    d = 1.0 / np.sqrt(A.diagonal())
+    As = sp.csr_matrix(A.multiply(d[:, None]).multiply(d[None, :]))
+    ml = pyamg.ruge_stuben_solver(As, strength=("classical", {"theta": 0.25}),
+                                  max_coarse=1000, coarse_solver="splu")
+    return Prepared(A, "amg", ml, d)
