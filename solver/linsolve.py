@@ -78,7 +78,7 @@ class Prepared:
     """A matrix ready to solve with: its LU factors or its multigrid hierarchy.
 
     The multigrid path works on the symmetrically scaled system
-    :math:`\tilde A = D^{-1/2} A D^{-1/2}`, :math:`D = \operatorname{diag} A`: rows of
+    :math:`\tilde A = D^{-1/2} A D^{-1/2}`, :math:`D = \\operatorname{diag} A`: rows of
     nodes a tiny cut distance from an outline carry coefficients up to :math:`10^3`
     times the others, and an unscaled residual norm is dominated by them (it stopped
     BiCGStab while the rest of the grid was still 1e-3 off).  Convergence is judged on
