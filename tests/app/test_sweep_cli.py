@@ -9,30 +9,23 @@ from __future__ import annotations
 import csv
 import json
 import math
-from dataclasses import replace
 from pathlib import Path
 
 import numpy as np
 import pytest
-from report_cases import COAX_B_MM, COAX_V, coax_layout
+from report_cases import COAX_B_MM
 from scipy.optimize import brentq
+from sweep_cases import LIMIT, coax_e, sweep_coax
 
 from app import cli
 from app.caution import CAUTION
-from solver.layout import FixedLimit, dumps_layout
-
-LIMIT = 1.0  # kV/mm
-
-
-def coax_e(r: float) -> float:
-    """kV/mm at the core of radius r mm (REFERENCES.md 1.1: E = U / (r ln(R/r)))."""
-    return COAX_V / 1e3 / (r * math.log(COAX_B_MM / r))
+from solver.layout import dumps_layout
 
 
 @pytest.fixture
 def coax_file(tmp_path: Path) -> Path:
     path = tmp_path / "coax.layout.json"
-    path.write_text(dumps_layout(replace(coax_layout(), limit=FixedLimit(LIMIT))))
+    path.write_text(dumps_layout(sweep_coax()))
     return path
 
 

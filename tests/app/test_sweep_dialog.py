@@ -15,25 +15,19 @@ import numpy as np
 import pytest
 from PySide6.QtGui import QUndoStack
 from PySide6.QtWidgets import QFileDialog, QLabel
-from report_cases import COAX_B_MM, COAX_V, coax_layout
+from report_cases import COAX_B_MM
 from scipy.optimize import brentq
+from sweep_cases import LIMIT, coax_e, sweep_coax
 
 from app.caution import CAUTION
 from app.document import Document
 from app.sweep_dialog import SweepDialog
-from solver.layout import Circle, FixedLimit
-
-LIMIT = 1.0  # kV/mm
-
-
-def coax_e(r: float) -> float:
-    """kV/mm at the core of radius r mm (REFERENCES.md 1.1: E = U / (r ln(R/r)))."""
-    return COAX_V / 1e3 / (r * math.log(COAX_B_MM / r))
+from solver.layout import Circle
 
 
 @pytest.fixture
 def dialog(qtbot) -> SweepDialog:  # noqa: ANN001
-    doc = Document(replace(coax_layout(), limit=FixedLimit(LIMIT)))
+    doc = Document(sweep_coax())
     dlg = SweepDialog(doc, QUndoStack())
     qtbot.addWidget(dlg)
     dlg.part_box.setCurrentText("Core")
@@ -138,7 +132,7 @@ def test_an_invalid_layout_is_refused_with_its_message(qtbot, dialog: SweepDialo
 def test_main_window_menu_opens_the_dialog(qtbot, tmp_path: Path) -> None:  # noqa: ANN001
     from editor_window import open_window
 
-    w = open_window(qtbot, tmp_path, replace(coax_layout(), limit=FixedLimit(LIMIT)))
+    w = open_window(qtbot, tmp_path, sweep_coax())
     menus = [a.text() for a in w.menuBar().actions()]
     assert menus.index("&Analysis") == menus.index("&Help") - 1
     w.actions_["sweep"].trigger()
