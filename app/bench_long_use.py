@@ -1,0 +1,208 @@
+"""Long-use benchmark: ``python -m app.bench_long_use [LAYOUT] [--minutes 10]``.
+
+Runs the real editor window offscreen with the live field view and scripts what an
+engineer does for a long session: press on a part, drag it to and fro for a few
+seconds with the mouse (real mouse events on the canvas, one every 40 ms, so the live
+view solves drafts all the time), release (a full solve with its error estimate runs),
+pause, and again, for the given number of minutes.  It prints:
+
+* memory: the resident set size (RSS, MB) after a warm-up cycle and at the end, the
+  growth between them, and the RSS at each minute (target: growth < 50 MB over
+  10 minutes);
+* responsiveness: the longest gap between ticks of a 10 ms heartbeat timer on the GUI
+  thread while dragging (target: < 100 ms), its 99th percentile, and the longest gap
+  with the window idle measured in the same run (the baseline);
+* how many drafts and full solves were shown or dropped as stale.
+
+Figures, not pass/fail: the machine is noisy.  ``tests/app/test_long_use.py`` runs a
+one-minute smoke run.
+"""
+
+from __future__ import annotations
+
+import argparse
+import gc
+import math
+import os
+import time
+
+STEP_MS = 40
+"""Interval of the scripted mouse moves (a hand moves the mouse at about 25 Hz)."""
+HEARTBEAT_MS = 10
+DRAG_S, PAUSE_S = 4.0, 1.5
+AMPLITUDE_MM = 12.0
+"""Largest excursion of the dragged part from where the drag began (mm)."""
+DRIFT_MM = 3.0
+"""Where a drag ends, from where it began (mm), alternately to the right and left."""
+
+
+def rss_mb() -> float:
+    """Resident set size of this process in MB (Linux /proc; else the peak from
+    ``resource``)."""
+    try:
+        pages = int(open("/proc/self/statm").read().split()[1])
+        return pages * os.sysconf("SC_PAGE_SIZE") / 1e6
+    except (OSError, ValueError, IndexError):
+        import resource
+
+        return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1e3
+
+
+class Heartbeat:
+    """Gaps between ticks of a fast timer on the GUI thread: a long gap is a stall."""
+
+    def __init__(self) -> None:
+        from PySide6.QtCore import QTimer
+
+        self.gaps: list[float] = []
+        self.last = time.perf_counter()
+        self.timer = QTimer()
+        self.timer.setTimerType(self.timer.timerType().PreciseTimer)
+        self.timer.timeout.connect(self._tick)
+        self.timer.start(HEARTBEAT_MS)
+
+    def _tick(self) -> None:
+        now = time.perf_counter()
+        self.gaps.append(now - self.last)
+        self.last = now
+
+    def reset(self) -> None:
+        self.gaps.clear()
+        self.last = time.perf_counter()
+
+
+class Hand:
+    """Drives the mouse on the canvas viewport: press, move in a triangle wave, release."""
+
+    def __init__(self, window, part_name: str) -> None:  # noqa: ANN001
+        self.w, self.name = window, part_name
+        self.side = 1
+
+    def _send(self, kind, mm: tuple[float, float], button, buttons) -> None:  # noqa: ANN001
+        from PySide6.QtCore import QPointF, Qt
+        from PySide6.QtGui import QMouseEvent
+        from PySide6.QtWidgets import QApplication
+
+        vp = self.w.canvas.viewport()
+        p = QPointF(self.w.canvas.mapFromScene(QPointF(*mm)))
+        ev = QMouseEvent(kind, p, QPointF(vp.mapToGlobal(p.toPoint())), button, buttons,
+                         Qt.KeyboardModifier.NoModifier)
+        QApplication.sendEvent(vp, ev)
+
+    def centre(self) -> tuple[float, float]:
+        from . import shape_edit as se
+
+        pid = self.w.doc.id_of(self.name)
+        x0, y0, x1, y1 = se.bounds(self.w.doc.part(pid).shape)
+        return (x0 + x1) / 2, (y0 + y1) / 2
+
+    def drag(self, app, seconds: float, until: float) -> int:  # noqa: ANN001
+        """One drag of ``seconds`` (cut short at ``until``); returns the moves sent."""
+        from PySide6.QtCore import QEvent, Qt
+
+        left = Qt.MouseButton.LeftButton
+        x0, y0 = self.centre()
+        self._send(QEvent.Type.MouseButtonPress, (x0, y0), left, left)
+        t0, moves, at = time.perf_counter(), 0, (x0, y0)
+        try:
+            while (t := time.perf_counter() - t0) < seconds and time.perf_counter() < until:
+                # a sine out and back, ending DRIFT_MM aside (alternately left and right), so
+                # every drag is one undo step and the part stays near its place
+                u = t / seconds
+                at = (x0 + AMPLITUDE_MM * math.sin(2 * math.pi * u) + self.side * DRIFT_MM * u,
+                      y0)
+                self._send(QEvent.Type.MouseMove, at, Qt.MouseButton.NoButton, left)
+                moves += 1
+                pump(app, STEP_MS / 1000)
+        finally:
+            self._send(QEvent.Type.MouseButtonRelease, at, left, Qt.MouseButton.NoButton)
+        self.side = -self.side
+        return moves
+
+
+def _load() -> float:
+    """The 1-minute load average (other work on the machine skews the stall figures)."""
+    try:
+        return os.getloadavg()[0]
+    except OSError:
+        return float("nan")
+
+
+def pump(app, seconds: float) -> None:  # noqa: ANN001
+    """Run the event loop for ``seconds``."""
+    end = time.perf_counter() + seconds
+    while time.perf_counter() < end:
+        app.processEvents()
+        time.sleep(0.001)
+
+
+def main(argv: list[str] | None = None) -> int:
+    ap = argparse.ArgumentParser(prog="python -m app.bench_long_use")
+    ap.add_argument("layout", nargs="?",
+                    default="sample_layouts/bench_supply_terminal.layout.json")
+    ap.add_argument("--part", default="Guard", help="name of the part to drag")
+    ap.add_argument("--minutes", type=float, default=10.0)
+    args = ap.parse_args(argv)
+    os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+    from .cli_gui import build_window, make_app
+
+    app = make_app()
+    w = build_window(args.layout)
+    w.autosave.finish()  # scripted edits are not the user's work: no recovery file
+    w.files.confirm_discard = lambda: True
+    w.resize(1400, 900)
+    w.show()
+    w.canvas.zoom_to_fit()
+    if w.doc.id_of(args.part) is None:
+        print(f"bench_long_use: no part named '{args.part}' in {args.layout}")
+        return 2
+    live, hand, beat = w.live, Hand(w, args.part), Heartbeat()
+    shown = [0]
+    live.runner.result_ready.connect(lambda _r: shown.__setitem__(0, shown[0] + 1))
+
+    def settle() -> None:
+        while not w.is_ready():
+            pump(app, 0.01)
+
+    settle()
+    beat.reset()
+    pump(app, 2.0)
+    idle_ms = 1000 * max(beat.gaps, default=0.0)
+    hand.drag(app, DRAG_S, time.perf_counter() + DRAG_S)  # warm-up cycle
+    settle()
+    gc.collect()
+    rss0, load0 = rss_mb(), _load()
+    beat.reset()
+    shown[0], dropped0, moves, drags = 0, live.runner.dropped, 0, 0
+    t_start = time.perf_counter()
+    end = t_start + 60 * args.minutes
+    per_minute: list[float] = []
+    while time.perf_counter() < end:
+        moves += hand.drag(app, DRAG_S, end)
+        drags += 1
+        pump(app, PAUSE_S)
+        if time.perf_counter() - t_start >= 60 * (len(per_minute) + 1):
+            per_minute.append(rss_mb())
+    gaps = sorted(beat.gaps)
+    settle()
+    gc.collect()
+    rss1 = rss_mb()
+    minutes = (time.perf_counter() - t_start) / 60
+    p99 = 1000 * gaps[int(0.99 * (len(gaps) - 1))] if gaps else 0.0
+    print(f"machine load (1-min average, {os.cpu_count()} cores): {load0:.1f} at the start, "
+          f"{_load():.1f} at the end")
+    print(f"layout: {args.layout}; dragged '{args.part}' {drags} times, {moves} mouse moves "
+          f"in {minutes:.1f} min; undo steps {w.stack.count()}")
+    print(f"results shown: {shown[0]}; dropped as stale: {live.runner.dropped - dropped0}")
+    print(f"memory: RSS {rss0:.1f} MB after warm-up -> {rss1:.1f} MB at the end: growth "
+          f"{rss1 - rss0:+.1f} MB (target < 50 MB over 10 min)")
+    print("memory by minute (MB): " + ", ".join(f"{m:.1f}" for m in per_minute))
+    print(f"GUI thread: longest stall {1000 * gaps[-1] if gaps else 0.0:.0f} ms "
+          f"(target < 100 ms), 99th percentile {p99:.0f} ms, over {len(gaps)} heartbeats "
+          f"of {HEARTBEAT_MS} ms; idle baseline longest gap {idle_ms:.0f} ms")
+    live.runner.wait()
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
