@@ -9,6 +9,8 @@ and the newest result replaces the overlays and the results table.
 
 from __future__ import annotations
 
+import logging
+
 import numpy as np
 from PySide6.QtCore import QObject, QPointF, QSettings, Qt, QTimer
 from PySide6.QtGui import QAction
@@ -24,6 +26,8 @@ from .panels.results_panel import ResultsPanel
 from .probes import ProbeLineItem, line_profile
 from .solve_runner import EquipotentialStep, LiveResult, SolveRunner
 from .step_control import StepControl
+
+log = logging.getLogger(__name__)
 
 ZOOM_TO_HOT_SPOT_MM = 30.0
 """Width in mm of the view after clicking a hot spot (or the current width if smaller)."""
@@ -66,6 +70,9 @@ class LiveView(QObject):
         window.statusBar().addPermanentWidget(self.probe)
         window.statusBar().addPermanentWidget(self.status)
         self.shown_revision = -1
+        self.usable: LiveResult | None = None
+        """The newest converged result shown (kept on show when a later solve fails to
+        converge)."""
         self.actions: dict[str, QAction] = {}
         self._build_menu()
         self._build_field_bar()
@@ -186,10 +193,34 @@ class LiveView(QObject):
 
     def _on_result(self, res: LiveResult) -> None:
         self.shown_revision = res.revision
+        if not res.solution.converged and self._keep_usable(res):
+            return
+        self.usable = res if res.solution.converged else None
         self.overlays.show(res)
         self.panel.show_result(res)
         self._update_scale()
         self.schedule_profile()
+
+    def _keep_usable(self, res: LiveResult) -> bool:
+        """A solve that missed its tolerance: keep the last converged result on show,
+        marked as such, and say so (True); with none, show this one marked (False)."""
+        why = (f"the solver did not converge (relative residual {res.solution.residual:.1e}"
+               f" at revision {res.revision})")
+        kept = self.usable
+        text = (f"\u26a0 not converged: showing the last converged result "
+                f"(revision {kept.revision}), not the current drawing" if kept is not None
+                else "\u26a0 NOT CONVERGED: the field shown is unreliable")
+        self.status.setText(text)
+        self.status.setToolTip(why)
+        self.status.setStyleSheet(STATE_STYLE["failed"])
+        self.window.show_message(f"Warning: {why}. " + (
+            "The field shown is that of an earlier drawing." if kept is not None
+            else "The field shown is unreliable."))
+        log.warning("%s", why)
+        if kept is None:
+            return False
+        self.runner.latest = kept  # the probe reads the same result the overlays show
+        return True
 
     def _update_scale(self) -> None:
         res = self.overlays.result
