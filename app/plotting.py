@@ -22,6 +22,7 @@ import numpy as np
 from matplotlib.axes import Axes
 from matplotlib.cm import ScalarMappable
 from scipy.interpolate import RegularGridInterpolator
+from scipy.ndimage import distance_transform_edt
 
 from solver.solution import Solution
 
@@ -111,9 +112,19 @@ def _view_slice(coords: np.ndarray, lo: float, hi: float) -> slice:
 
 
 def _field_magnitude(solution: Solution) -> np.ndarray:
-    """|E| on the grid, kV/mm, zero inside conductors."""
-    e = np.hypot(solution.Ex_kV_per_mm, solution.Ey_kV_per_mm)
-    return np.where(solution.conductor >= 0, 0.0, np.nan_to_num(e))
+    """|E| on the grid (kV/mm), conductor nodes given their nearest medium node's value.
+
+    Inside a conductor the field is zero, but the colour map is resampled bilinearly and
+    would fade towards zero in the last cell before every surface, just where the field
+    is strongest.  The conductor's own patch covers its inside, so the map only needs
+    values that continue the medium's field up to the outline.
+    """
+    e = np.nan_to_num(np.hypot(solution.Ex_kV_per_mm, solution.Ey_kV_per_mm))
+    inside = solution.conductor >= 0
+    if not inside.any() or inside.all():
+        return e
+    _, (iy, ix) = distance_transform_edt(inside, return_indices=True)
+    return e[iy, ix]
 
 
 def draw_colour_map(ax: Axes, solution: Solution,

@@ -177,9 +177,10 @@ def _legend(fig: Figure, solution: Solution, overlays: ReportOverlays, top: floa
     if overlays.field_lines:
         handles.append(Line2D([], [], color=FIELD_LINE_COLOUR, lw=0.8, ls=FIELD_LINE_STYLE,
                               label="field line (arrow along E)"))
-    if overlays.hot_spots:
+    if overlays.hot_spots and solution.hot_spots:
         handles.append(Line2D([], [], ls="none", marker="^", ms=8, mfc=HOT_SPOT_COLOUR,
                               mec="white", label="hot spot: field > limit"))
+    if overlays.hot_spots:
         handles.append(Line2D([], [], ls="none", marker="*", ms=11, mfc="white", mec=PEAK_COLOUR,
                               label="peak surface field"))
     fig.legend(handles=handles, loc="upper left", bbox_to_anchor=(0.695, top), fontsize=8.5,

@@ -21,6 +21,7 @@ from report_cases import (
     COAX_V,
     SAMPLE,
     axisymmetric_layout,
+    coax_field,
     solved_coax,
     solved_sample,
 )
@@ -272,3 +273,23 @@ def test_a_peak_on_a_square_corner_is_flagged_on_the_figure() -> None:
     text = " ".join(t.get_text() for t in render_figure(rounded, ReportOverlays(
         field_lines=False), "bar", WHEN).texts)
     assert "sharp corner" not in squash(text)
+
+
+def test_field_strength_map_of_a_coax_follows_the_closed_form() -> None:
+    sol = solved_coax()
+    fig = render_figure(sol, ReportOverlays(field_strength_map=True, field_lines=False,
+                                            equipotentials=False), "coax", WHEN)
+    im = fig.axes[0].images[0]
+    data = np.asarray(im.get_array(), float)
+    x0, x1, y0, y1 = im.get_extent()
+    ny, nx = data.shape
+    xs, ys = np.linspace(x0, x1, nx), np.linspace(y0, y1, ny)
+    yy, xx = np.meshgrid(ys, xs, indexing="ij")
+    r = np.hypot(xx, yy)
+    gap = (r > COAX_A_MM + 1.0) & (r < COAX_B_MM - 1.0)
+    # E(r) = V0 / (r ln(b/a)) between the conductors (REFERENCES.md §1.1)
+    assert np.max(np.abs(data[gap] / coax_field(r[gap]) - 1)) < 0.03
+    # next to the core the map keeps the surface value, it does not fade to the
+    # zero field inside the conductor
+    rim = (r > COAX_A_MM) & (r < COAX_A_MM + 0.5)
+    assert np.min(data[rim]) > 0.9 * coax_field(np.array(COAX_A_MM + 0.5))
