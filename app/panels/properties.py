@@ -15,6 +15,7 @@ from PySide6.QtWidgets import QComboBox, QFormLayout, QGroupBox, QLabel, QVBoxLa
 
 from solver.layout import KINDS, Part, Shape
 
+from .. import shape_edit as se
 from ..commands import ChangePartCommand
 from ..document import Document
 from ..selection import Selection
@@ -76,7 +77,9 @@ class PropertiesPanel(QWidget):
         self.shape_box.setVisible(self.pid is not None)
         if self.pid is None:
             self.caption.setText("No part selected. Click a part on the canvas or in the list."
-                                 if not ids else f"{len(ids)} parts selected.")
+                                 if not ids else f"{len(ids)} parts selected."
+                                 + (" " + clearance_text(self.doc, ids) if len(ids) == 2
+                                    else ""))
             return
         part = self.doc.part(self.pid)
         self.caption.setText(f"{SHAPE_NAMES[part.shape.type]} \u2014 lengths in mm")
@@ -142,3 +145,19 @@ class PropertiesPanel(QWidget):
         if self.pid is not None:
             part = self.doc.part(self.pid)
             self._change(replace(part, shape=shape), f"Resize {part.name}")
+
+
+def clearance_text(doc: Document, ids: list[int]) -> str:
+    """The shortest gap between two parts' outlines (mm): the clearance through the medium.
+
+    Shapely's distance between the two regions, holes included, so a part inside an
+    enclosure's opening is measured to the opening's edge.
+    """
+    a, b = (doc.part(i) for i in ids)
+    ra, rb = se.region(a.shape), se.region(b.shape)
+    if ra is None or rb is None:
+        return "(clearance unknown: an outline is not valid)"
+    gap = ra.distance(rb)
+    if gap == 0.0:
+        return f"'{a.name}' and '{b.name}' touch or overlap."
+    return f"Clearance between '{a.name}' and '{b.name}': {gap:.4g} mm."

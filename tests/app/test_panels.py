@@ -186,3 +186,14 @@ def test_axisymmetric_layouts_mirror_only_up_down(qtbot, tmp_path) -> None:  # n
     assert w.stack.count() == 0 and "only up-down" in w.statusBar().currentMessage()
     w.actions_["mirror_h"].trigger()
     assert w.stack.count() == 1
+
+
+def test_two_selected_parts_show_their_clearance(win) -> None:  # noqa: ANN001
+    # from memory: the gap between a circle (centre 30, r 6) and the side x = -20 of the
+    # bar is 30 - 6 - (-20) = 44 mm along the line through the centre
+    win.selection.set([win.doc.id_of("Bar"), win.doc.id_of("Ball")])
+    text = win.properties_panel.caption.text()
+    assert "Clearance between 'Bar' and 'Ball': 44 mm." in text
+    # the lead wire's end circle (centre (80, 0), radius 1) to the ball: 80 - 1 - 36 = 43 mm
+    win.selection.set([win.doc.id_of("Ball"), win.doc.id_of("Lead")])
+    assert "43 mm" in win.properties_panel.caption.text()
