@@ -29,7 +29,13 @@ PAD_PX = 3.0
 
 
 def _box(text: Text, renderer: object) -> Bbox:
-    """The text's own box (no leader line), padded a little."""
+    """The text's own box (no leader line), padded a little.
+
+    An annotation's text transform follows its offset only after ``update_positions``;
+    without it the offset would be read in data units.
+    """
+    if isinstance(text, Annotation):
+        text.update_positions(renderer)
     bb = Text.get_window_extent(text, renderer)
     return Bbox.from_extents(bb.x0 - PAD_PX, bb.y0 - PAD_PX, bb.x1 + PAD_PX, bb.y1 + PAD_PX)
 
