@@ -13,8 +13,16 @@ about the cursor; the middle button, or space with the left button, pans.
 
 from __future__ import annotations
 
-from PySide6.QtCore import QPointF, QRectF, Qt, Signal
-from PySide6.QtGui import QKeyEvent, QMouseEvent, QPainter, QPixmap, QTransform, QWheelEvent
+from PySide6.QtCore import QEvent, QPointF, QRectF, Qt, Signal
+from PySide6.QtGui import (
+    QKeyEvent,
+    QMouseEvent,
+    QPainter,
+    QPixmap,
+    QResizeEvent,
+    QTransform,
+    QWheelEvent,
+)
 from PySide6.QtWidgets import QGraphicsItemGroup, QGraphicsScene, QGraphicsView, QWidget
 
 from . import shape_edit as se
@@ -272,7 +280,7 @@ class Canvas(QGraphicsView):
         self.viewport().update()
         self.view_changed.emit()
 
-    def resizeEvent(self, event) -> None:  # noqa: ANN001
+    def resizeEvent(self, event: QResizeEvent) -> None:
         super().resizeEvent(event)
         if self._auto_fit:  # until the user zooms or pans, the view keeps fitting the parts
             self.zoom_to_fit()
@@ -343,7 +351,7 @@ class Canvas(QGraphicsView):
             self.preview_item.set_snap(self.ctx.last_snap)
         event.accept()
 
-    def leaveEvent(self, event) -> None:  # noqa: ANN001
+    def leaveEvent(self, event: QEvent) -> None:
         self.preview_item.set_snap(None)
         super().leaveEvent(event)
 

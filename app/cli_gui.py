@@ -14,6 +14,12 @@ import os
 import sys
 import time
 from pathlib import Path
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from PySide6.QtWidgets import QApplication
+
+    from .main_window import MainWindow
 
 NO_DISPLAY_MESSAGE = (
     "stresslens: no display found (neither DISPLAY nor WAYLAND_DISPLAY is set), so the "
@@ -70,7 +76,7 @@ def run(args: argparse.Namespace) -> int:
     return _interactive(args.layout)
 
 
-def make_app():  # noqa: ANN201 - QApplication
+def make_app() -> QApplication:
     """The QApplication (created once), named so settings land in one place."""
     from PySide6.QtWidgets import QApplication
 
@@ -83,7 +89,7 @@ def make_app():  # noqa: ANN201 - QApplication
     return app
 
 
-def build_window(layout_path: str | None):  # noqa: ANN201 - MainWindow
+def build_window(layout_path: str | None) -> MainWindow:
     """The editor window with ``layout_path`` loaded (an empty layout when None).
 
     A bad file is reported in a dialog by the window itself; the window stays open.

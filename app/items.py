@@ -7,6 +7,8 @@ Pens are cosmetic: outlines are as thin on screen at every zoom.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
+
 from PySide6.QtCore import QPointF, QRectF, Qt
 from PySide6.QtGui import QBrush, QColor, QFont, QPainter, QPainterPath, QPen, QTransform
 from PySide6.QtWidgets import (
@@ -43,7 +45,7 @@ def shape_path(part: Part) -> tuple[QPainterPath, bool]:
     return path, False
 
 
-def _add_ring(path: QPainterPath, pts: list, closed: bool) -> None:  # noqa: ANN001
+def _add_ring(path: QPainterPath, pts: Sequence[Sequence[float]], closed: bool) -> None:
     path.moveTo(QPointF(*pts[0]))
     for x, y in pts[1:]:
         path.lineTo(QPointF(x, y))

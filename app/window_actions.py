@@ -6,6 +6,7 @@ Delete, zoom); the drawing tools have single-letter keys of our own.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import replace
 from typing import TYPE_CHECKING
 
@@ -38,7 +39,8 @@ TOOL_KEYS = {"select": ("select", "S"), "vertex": ("vertex", "E"),
 Std = QKeySequence.StandardKey
 
 
-def _action(w: MainWindow, text: str, slot, icon_name: str | None = None,  # noqa: ANN001
+def _action(w: MainWindow, text: str, slot: Callable[[], object],
+            icon_name: str | None = None,
             key: QKeySequence | QKeySequence.StandardKey | str | None = None,
             tip: str | None = None) -> QAction:
     a = QAction(icon(icon_name) if icon_name else QIcon(), text, w)

@@ -4,12 +4,12 @@ from __future__ import annotations
 
 import math
 
-from solver.layout import Path, Point, Polygon
+from solver.layout import Path, Point, Polygon, Shape
 
 from .. import shape_edit as se
 from ..commands import AddPartCommand, CutHoleCommand
 from ..hit_test import part_at
-from .base import Preview, Tool
+from .base import Preview, Tool, ToolContext
 
 
 class ClickPointsTool(Tool):
@@ -20,7 +20,7 @@ class ClickPointsTool(Tool):
     min_points = 3
     closed = True
 
-    def __init__(self, ctx) -> None:  # noqa: ANN001 - ToolContext
+    def __init__(self, ctx: ToolContext) -> None:
         super().__init__(ctx)
         self.points: list[Point] = []
         self.cursor: Point | None = None
@@ -72,7 +72,7 @@ class ClickPointsTool(Tool):
         pts = tuple(self.points) + ((self.cursor,) if self.cursor is not None else ())
         return Preview(points=pts, closed=self.closed and len(pts) >= 3)
 
-    def _add(self, shape) -> None:  # noqa: ANN001 - Shape
+    def _add(self, shape: Shape) -> None:
         cmd = self.ctx.push(lambda: AddPartCommand(self.ctx.doc, self.ctx.new_part(shape)))
         if isinstance(cmd, AddPartCommand) and cmd.pid is not None:
             self.ctx.selection.set([cmd.pid])
@@ -107,7 +107,7 @@ class HoleTool(ClickPointsTool):
     hint = ("click the hole's corners inside a part, or drag a rectangle (shift-drag: a "
             "round hole from its centre); Enter closes")
 
-    def __init__(self, ctx) -> None:  # noqa: ANN001 - ToolContext
+    def __init__(self, ctx: ToolContext) -> None:
         super().__init__(ctx)
         self.drag_from: Point | None = None
         self.round = False

@@ -7,7 +7,7 @@ import math
 from solver.layout import Circle, Ellipse, Point, Rect, Shape
 
 from ..commands import AddPartCommand
-from .base import Preview, Tool
+from .base import Preview, Tool, ToolContext
 
 
 class DragShapeTool(Tool):
@@ -17,7 +17,7 @@ class DragShapeTool(Tool):
     The new part gets the current new-part kind and is selected.
     """
 
-    def __init__(self, ctx) -> None:  # noqa: ANN001 - ToolContext
+    def __init__(self, ctx: ToolContext) -> None:
         super().__init__(ctx)
         self.start: Point | None = None
         self.current: Point | None = None

@@ -7,7 +7,7 @@ from solver.layout import Part, Point
 from .. import shape_edit as se
 from ..commands import MovePartsCommand, RemovePartsCommand
 from ..hit_test import part_at, parts_in_box
-from .base import Preview, Tool
+from .base import Preview, Tool, ToolContext
 
 NUDGE_KEYS = {"Left": (-1, 0), "Right": (1, 0), "Up": (0, 1), "Down": (0, -1)}
 
@@ -24,7 +24,7 @@ class SelectTool(Tool):
     name, label = "select", "Select"
     hint = "click or box-select parts; drag to move; arrows nudge; Del deletes"
 
-    def __init__(self, ctx) -> None:  # noqa: ANN001 - ToolContext
+    def __init__(self, ctx: ToolContext) -> None:
         super().__init__(ctx)
         self.mode: str | None = None
         self.anchor: Point = (0.0, 0.0)

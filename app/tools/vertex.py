@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from solver.layout import Part, Point
+from solver.layout import Part, Point, Shape
 
 from .. import shape_edit as se
 from ..commands import (
@@ -15,7 +15,7 @@ from ..commands import (
     SetCornerRadiusCommand,
 )
 from ..hit_test import edge_at, part_at, vertex_at
-from .base import Preview, Tool
+from .base import Preview, Tool, ToolContext
 
 
 class VertexTool(Tool):
@@ -32,7 +32,7 @@ class VertexTool(Tool):
     hint = ("drag vertices or edges; double-click adds/removes a vertex; Shift+R rounds "
             "the clicked corner")
 
-    def __init__(self, ctx) -> None:  # noqa: ANN001 - ToolContext
+    def __init__(self, ctx: ToolContext) -> None:
         super().__init__(ctx)
         self.drag: tuple[str, int, se.Ref] | None = None
         self.before: Part | None = None
@@ -163,7 +163,7 @@ class VertexTool(Tool):
     def _target(self, pt: Point, pid: int) -> Point:
         return self.ctx.snap(pt, exclude=[pid])
 
-    def _dragged_shape(self, pt: Point):  # noqa: ANN202 - Shape
+    def _dragged_shape(self, pt: Point) -> Shape:
         assert self.drag is not None and self.before is not None
         kind, pid, ref = self.drag
         q = self._target(pt, pid)
