@@ -293,3 +293,20 @@ def test_field_strength_map_of_a_coax_follows_the_closed_form() -> None:
     # zero field inside the conductor
     rim = (r > COAX_A_MM) & (r < COAX_A_MM + 0.5)
     assert np.min(data[rim]) > 0.9 * coax_field(np.array(COAX_A_MM + 0.5))
+
+
+def test_captions_and_callouts_do_not_cover_each_other() -> None:
+    # legibility of the figure (common practice, no source): no boxed label over another
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    fig = render_figure(solved_sample(), ReportOverlays(), SAMPLE.name, WHEN)
+    renderer = FigureCanvasAgg(fig).get_renderer()
+    fig.draw(renderer)
+    boxes = [t.get_bbox_patch().get_window_extent(renderer) for t in fig.axes[0].texts
+             if t.get_text() and t.get_bbox_patch() is not None]
+    assert len(boxes) >= len(solved_sample().parts)
+    for i, a in enumerate(boxes):
+        for b in boxes[i + 1:]:
+            w = min(a.x1, b.x1) - max(a.x0, b.x0)
+            h = min(a.y1, b.y1) - max(a.y0, b.y0)
+            assert min(w, h) <= 1.0, (a, b)
