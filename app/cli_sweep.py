@@ -8,7 +8,8 @@ the steps as CSV.  ``--executor`` says where steps run: ``serial``, ``processes`
 (``processes:N``) or ``dask:ADDRESS``.  Progress goes to stderr.
 
 Exit status: 0 success (also when the goal cannot be met: the answer says so), 1 the
-CSV could not be written, 2 a bad layout or bad arguments.
+steps could not be run (worker processes or the cluster failed) or the CSV could not be
+written, 2 a bad layout or bad arguments.
 """
 
 from __future__ import annotations
@@ -105,6 +106,10 @@ def run(args: argparse.Namespace) -> int:
         if args.goal is not None:
             goal = goal_seek(layout, args.part, args.param, args.start, args.stop, args.goal,
                              coarse=res)
+    except RuntimeError as exc:  # a broken process pool, a lost cluster
+        print(f"stresslens sweep: the steps could not be run on {executor.name}: {exc}",
+              file=sys.stderr)
+        return EXIT_WRITE_FAILED
     finally:
         executor.close()
     if args.csv:

@@ -131,6 +131,7 @@ class SweepDialog(QDialog):
         self._result_layout: Any = None
         self._build()
         self._fill_parts()
+        self.doc.changed.connect(self._on_doc_changed)
         self.resize(900, 780)
 
     # ------------------------------------------------------------------ building
@@ -230,8 +231,30 @@ class SweepDialog(QDialog):
         return s
 
     def _fill_parts(self) -> None:
+        """List the document's parts, keeping the chosen part and parameter if they remain."""
+        names = [p.name for _, p in self.doc.parts()]
+        if names == [self.part_box.itemText(i) for i in range(self.part_box.count())]:
+            return
+        part, param = self.part_box.currentText(), self.param_box.currentText()
         self.part_box.clear()
-        self.part_box.addItems([p.name for _, p in self.doc.parts()])
+        self.part_box.addItems(names)
+        if part in names:
+            self.part_box.setCurrentText(part)
+            self.param_box.setCurrentText(param)
+
+    def _on_doc_changed(self, _revision: int) -> None:
+        """Follow edits made while the dialog is open (names, the present value)."""
+        if self.is_running() or not self.isVisible():
+            return
+        self._fill_parts()
+        part, param = self.part_box.currentText(), self.param_box.currentText()
+        if part and param and self.doc.id_of(part) is not None:
+            try:
+                value = param_value(self.doc.snapshot(), part, param)
+            except (LayoutError, ValueError):
+                return
+            unit = param_unit(param)
+            self.now_label.setText(f"now {value:.4g}{' ' + unit if unit else ''}")
 
     def _fill_params(self, name: str) -> None:
         self.param_box.clear()
@@ -434,8 +457,7 @@ def open_sweep_dialog(window: Any) -> SweepDialog:
     if dlg is None:
         dlg = SweepDialog(window.doc, window.stack, window)
         window.sweep_dialog = dlg
-    else:
-        dlg._fill_parts()
+    dlg._fill_parts()
     dlg.show()
     dlg.raise_()
     return dlg

@@ -78,6 +78,7 @@ def test_goal_apply_is_one_undoable_command(qtbot, dialog: SweepDialog) -> None:
     assert dialog.apply_button.isEnabled()
     dialog.apply_goal()
     assert stack.count() == 1
+    assert dialog.now_label.text() == f"now {goal.value:.4g} mm"  # follows the document
     assert doc.part(doc.id_of("Core")).shape == Circle(center=(0.0, 0.0), radius=goal.value)
     stack.undo()
     assert doc.part(doc.id_of("Core")) == before
@@ -139,3 +140,12 @@ def test_main_window_menu_opens_the_dialog(qtbot, tmp_path: Path) -> None:  # no
     dlg = w.sweep_dialog
     assert [dlg.part_box.itemText(i) for i in range(dlg.part_box.count())] == ["Core", "Sheath"]
     dlg.close()
+
+
+def test_part_list_follows_the_document(qtbot, dialog: SweepDialog) -> None:
+    doc = dialog.doc
+    pid = doc.id_of("Sheath")
+    doc.replace_part(pid, replace(doc.part(pid), name="Tube"))
+    assert [dialog.part_box.itemText(i) for i in range(dialog.part_box.count())] == \
+        ["Core", "Tube"]
+    assert (dialog.part_box.currentText(), dialog.param_box.currentText()) == ("Core", "radius")
