@@ -25,7 +25,8 @@ CLUSTER_FRACTION = 0.06
 
 
 def peak_location(solution: Solution) -> tuple[str, tuple[float, float], float] | None:
-    """(part, (x, y) mm, |E| kV/mm) of the largest surface field, as the solver reports it.
+    """(part, (x, y) mm, |E| kV/mm) of the largest surface field, as the solver reports it;
+    None when there is no field anywhere.
 
     Conductors count with their peak surface field, dielectrics with the gas-side field
     on their outline (the field inside a dielectric body is not a surface field).
@@ -38,7 +39,9 @@ def peak_location(solution: Solution) -> tuple[str, tuple[float, float], float] 
             value, at = p.surface_field_kV_per_mm, p.surface_peak_at_mm
         else:
             value, at = p.peak_field_kV_per_mm, p.peak_at_mm
-        if math.isfinite(value) and (best is None or value > best[2]):
+        if not (math.isfinite(value) and value > 0 and all(map(math.isfinite, at))):
+            continue  # no field at all (every conductor at one potential): nothing to mark
+        if best is None or value > best[2]:
             best = (p.name, (float(at[0]), float(at[1])), float(value))
     return best
 

@@ -125,7 +125,8 @@ def _summary(fig: Figure, solution: Solution) -> float:
                  fontsize=9, va="top")
     n_hot = len(solution.hot_spots)
     verdict = (f"{n_hot} hot spot{'s' * (n_hot != 1)} above the limit" if n_hot
-               else "below the limit everywhere")
+               else "below the limit everywhere" if peak is not None
+               else "no field: all conductors at one potential")
     fig.text(x, y - 0.102, verdict, fontsize=9, va="top", weight="bold",
              color=HOT_SPOT_COLOUR if n_hot else "#2d6a2d")
     note = ""

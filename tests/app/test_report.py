@@ -310,3 +310,16 @@ def test_captions_and_callouts_do_not_cover_each_other() -> None:
             w = min(a.x1, b.x1) - max(a.x0, b.x0)
             h = min(a.y1, b.y1) - max(a.y0, b.y0)
             assert min(w, h) <= 1.0, (a, b)
+
+
+def test_a_layout_with_no_field_still_gives_a_report(tmp_path: Path) -> None:
+    # one conductor at 0 V in open space: the potential is 0 everywhere (Laplace's
+    # equation with zero boundary values has only the zero solution; from memory)
+    layout = parse_layout({
+        "stresslens_layout": 1, "resolution": "draft",
+        "parts": [{"name": "Lone", "kind": "electrode", "volts": 0,
+                   "shape": {"type": "circle", "center": [0, 0], "radius": 5}}]})
+    sol = solver.solve(layout, estimate_error=False)
+    out = write_report(sol, tmp_path / "lone.pdf", source_name="lone", when=WHEN)
+    text = squash(" ".join(p.extract_text() for p in PdfReader(out).pages))
+    assert "no field: all conductors at one potential" in text
