@@ -82,7 +82,8 @@ def make_app() -> QApplication:
 
     from .icons import APP_ICON, icon
 
-    app = QApplication.instance() or QApplication(sys.argv[:1])
+    existing = QApplication.instance()
+    app = existing if isinstance(existing, QApplication) else QApplication(sys.argv[:1])
     app.setOrganizationName("Stresslens")
     app.setApplicationName("Stresslens")
     app.setWindowIcon(icon(APP_ICON))

@@ -157,7 +157,8 @@ class AddPartCommand(QUndoCommand):
 
     def __init__(self, doc: Document, part: Part, text: str | None = None) -> None:
         super().__init__(text or f"Add {part.name}")
-        self.doc, self.part, self.pid = doc, part, None
+        self.doc, self.part = doc, part
+        self.pid: int | None = None
 
     def redo(self) -> None:
         self.pid = self.doc.insert_part(self.part, pid=self.pid)
@@ -200,7 +201,7 @@ class AddPartsCommand(QUndoCommand):
         self.new_ids: list[int] = []
 
     def redo(self) -> None:
-        ids = self.new_ids or [None] * len(self.parts)
+        ids: list[int | None] = list(self.new_ids) or [None] * len(self.parts)
         pairs = zip(self.parts, ids, strict=True)
         self.new_ids = [self.doc.insert_part(p, pid=i) for p, i in pairs]
 

@@ -70,12 +70,13 @@ class FileActions(QObject):
         crossing itself) can still be opened for repair, after a question naming the
         problem: the editor is where it gets fixed.
         """
+        layout: Layout | None
         try:
             layout = load_layout(path)
         except LayoutError as exc:
             layout = self._open_for_repair(path, exc)
-            if layout is None:
-                return False
+        if layout is None:
+            return False
         self.doc.load(layout, path)
         self._remember(path)
         self.opened.emit(str(path))

@@ -179,7 +179,7 @@ class BoundaryItem(QGraphicsRectItem):
                    Qt.PenStyle.DashLine if fixed else Qt.PenStyle.DashDotLine)
         pen.setCosmetic(True)
         self.setPen(pen)
-        text = (f"Boundary box at {format_volts(b.volts)}" if fixed
+        text = (f"Boundary box at {format_volts(b.volts)}" if b.volts is not None
                 else "Boundary box: insulating walls")
         self.label.set_text([text])
         lab = self.label.boundingRect()

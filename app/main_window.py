@@ -18,7 +18,15 @@ from pathlib import Path
 
 from PySide6.QtCore import QSettings, Qt, QTimer, Signal
 from PySide6.QtGui import QCloseEvent, QUndoStack
-from PySide6.QtWidgets import QDockWidget, QLabel, QMainWindow, QScrollArea, QWidget
+from PySide6.QtWidgets import (
+    QComboBox,
+    QDockWidget,
+    QLabel,
+    QMainWindow,
+    QMenu,
+    QScrollArea,
+    QWidget,
+)
 
 from solver.layout import Layout
 
@@ -41,6 +49,10 @@ class MainWindow(QMainWindow):
 
     ``settings`` holds the recent files and window state (tests pass a private file).
     """
+
+    recent_menu: QMenu
+    view_menu: QMenu
+    kind_combo: QComboBox
 
     document_changed = Signal(int)
     interaction_changed = Signal(bool)

@@ -28,6 +28,7 @@ from .commands import (
 from .help_keys import show_keys
 from .icons import icon
 from .panels.fields import NumberField
+from .tools.vertex import VertexTool
 
 if TYPE_CHECKING:
     from .main_window import MainWindow
@@ -272,6 +273,7 @@ def mirror(w: MainWindow, vertical_line: bool) -> None:
 def corner_radius(w: MainWindow) -> None:
     """Ask for the corner radius (mm) of the current vertex of the Edit outline tool."""
     tool = w.canvas.tools["vertex"]
+    assert isinstance(tool, VertexTool)
     current = tool.current_radius()
     if w.canvas.tool is not tool or current is None:
         w.canvas.set_tool("vertex")
