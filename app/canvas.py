@@ -123,6 +123,7 @@ class Canvas(QGraphicsView):
                    default=0.0)
 
     def _rebuild(self) -> None:
+        self.tool.cancel()  # a half-drawn outline belongs to the layout that was replaced
         for item in self.items_by_id.values():
             self.scene_.removeItem(item)
         self.items_by_id.clear()

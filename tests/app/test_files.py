@@ -157,3 +157,17 @@ def test_save_writes_only_whole_files(qtbot, tmp_path, monkeypatch, dialogs) -> 
     assert not w.files.save()
     assert target.read_text() == "old content"
     assert [p.name for p in tmp_path.iterdir() if p.name.startswith(".atomic")] == []
+
+
+def test_opening_a_file_drops_a_half_drawn_outline(qtbot, tmp_path, dialogs) -> None:  # noqa: ANN001
+    # common practice, no source: work in progress on one layout does not leak into the next
+    from editor_window import click
+    w = open_window(qtbot, tmp_path, every_shape_layout())
+    target = tmp_path / "other.layout.json"
+    target.write_text(json.dumps(layout_to_json(every_shape_layout())))
+    w.actions_["tool_polygon"].trigger()
+    click(qtbot, w, (0.0, 0.0))
+    click(qtbot, w, (10.0, 0.0))
+    assert w.canvas.tool.preview() is not None
+    assert w.files.open(str(target))
+    assert w.canvas.tool.preview() is None
