@@ -79,6 +79,11 @@ def _edit_actions(w: MainWindow) -> dict[str, QAction]:
     redo = w.stack.createRedoAction(w, "&Redo")
     redo.setIcon(icon("redo"))
     redo.setShortcut(QKeySequence(Std.Redo))
+
+    def during_drag(dragging: bool) -> None:  # no undo under a drag in progress
+        undo.setEnabled(not dragging and w.stack.canUndo())
+        redo.setEnabled(not dragging and w.stack.canRedo())
+    w.doc.interaction_changed.connect(during_drag)
     return {
         "undo": undo, "redo": redo,
         "cut": _action(w, "Cu&t", lambda: copy_parts(w, cut=True), "cut", Std.Cut),

@@ -197,3 +197,16 @@ def test_two_selected_parts_show_their_clearance(win) -> None:  # noqa: ANN001
     # the lead wire's end circle (centre (80, 0), radius 1) to the ball: 80 - 1 - 36 = 43 mm
     win.selection.set([win.doc.id_of("Ball"), win.doc.id_of("Lead")])
     assert "43 mm" in win.properties_panel.caption.text()
+
+
+def test_undo_waits_for_a_drag_to_end(win) -> None:  # noqa: ANN001
+    # common practice, no source: one thing at a time; undo acts on finished steps
+    win.selection.set([win.doc.id_of("Ball")])
+    win.actions_["mirror_h"].trigger()
+    tool = win.canvas.tools["select"]
+    tool.press((30.0, 0.0))
+    tool.move((40.0, 5.0), True)
+    assert not win.actions_["undo"].isEnabled()
+    win.actions_["undo"].trigger()
+    tool.release((40.0, 5.0))
+    assert win.actions_["undo"].isEnabled() and win.stack.count() == 2
