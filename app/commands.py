@@ -36,6 +36,8 @@ class ReplacePartsCommand(QUndoCommand):
     def redo(self) -> None:
         for pid, (_, after) in self.changes.items():
             self.doc.replace_part(pid, after)
+        if all(b == a for b, a in self.changes.values()):
+            self.setObsolete(True)  # e.g. a symmetric part mirrored: no step in the history
 
     def undo(self) -> None:
         for pid, (before, _) in self.changes.items():

@@ -177,9 +177,9 @@ def test_axisymmetric_layouts_mirror_only_up_down(qtbot, tmp_path) -> None:  # n
     # DESIGN.md section 2: in axisymmetry x is the radius r >= 0
     from editor_window import open_window as open_win
 
-    from solver.layout import Circle, Layout, Part
-    layout = Layout(parts=(Part("Ball", "floating", Circle((30.0, 5.0), 6.0), charge=0.0),),
-                    symmetry="axisymmetric")
+    from solver.layout import Layout, Part, Path
+    layout = Layout(parts=(Part("Wire", "electrode", Path(((10.0, 0.0), (30.0, 8.0)), 1.0),
+                                volts=1.0),), symmetry="axisymmetric")
     w = open_win(qtbot, tmp_path, layout)
     w.selection.set(w.doc.ids())
     w.actions_["mirror_v"].trigger()
@@ -202,7 +202,12 @@ def test_two_selected_parts_show_their_clearance(win) -> None:  # noqa: ANN001
 def test_undo_waits_for_a_drag_to_end(win) -> None:  # noqa: ANN001
     # common practice, no source: one thing at a time; undo acts on finished steps
     win.selection.set([win.doc.id_of("Ball")])
+    win.actions_["mirror_h"].trigger()  # a circle mirrored is the same circle: no step
+    assert win.stack.count() == 0
+    win.selection.set([win.doc.id_of("Lead")])
     win.actions_["mirror_h"].trigger()
+    assert win.stack.count() == 1
+    win.selection.set([win.doc.id_of("Ball")])
     tool = win.canvas.tools["select"]
     tool.press((30.0, 0.0))
     tool.move((40.0, 5.0), True)
