@@ -20,7 +20,9 @@ f the target fraction: a coarse sweep brackets the crossing, then Brent's method
 (``scipy.optimize.brentq``, safeguarded: it never leaves the bracket) refines
 :math:`u(p) - f = 0`.  Which boundary is wanted follows from the response: when the
 field falls as p grows (a radius, a gap) the *smallest* p that meets the target is the
-answer; when it rises (a voltage) the *largest*.  The value reported is one that was
+answer; when it rises (a voltage) the *largest*.  When only a window inside the range
+meets it (the field falls, then rises again), the smallest value is reported and a note
+gives the window as the coarse steps saw it.  The value reported is one that was
 solved and meets the target, within ``xtol`` of the crossing.
 
 Each step is solved without the coarse-grid error estimate and without the capacitance
@@ -279,8 +281,8 @@ def _refine(layout: Layout, part: str, param: str, steps: list[StepResult], meet
     unit = param_unit(param)
     falling = steps[-1].utilisation <= steps[0].utilisation
     direction: Literal["smallest", "largest"]
-    if meets[-1] and not meets[0]:
-        direction = "smallest"
+    if meets[-1] and not meets[0] or not (meets[0] or meets[-1]):
+        direction = "smallest"  # falling response, or a window inside the range
     elif meets[0] and not meets[-1]:
         direction = "largest"
     else:
