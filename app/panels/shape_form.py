@@ -22,6 +22,7 @@ from PySide6.QtWidgets import (
 
 from solver.layout import Path, Polygon, Shape
 
+from .. import shape_edit as se
 from .fields import NumberField
 
 Commit = Callable[[Shape], None]
@@ -58,7 +59,7 @@ _FIELDS: dict[str, list[tuple[str, str, Callable, Callable]]] = {
 def form_key(shape: Shape) -> tuple:
     """Shapes with the same key share a form layout (same fields, same table rows)."""
     n = len(getattr(shape, "points", ()))
-    return shape.type, n, len(getattr(shape, "holes", ()))
+    return shape.type, n, tuple(len(h) for h in getattr(shape, "holes", ()))
 
 
 class ShapeForm(QWidget):
@@ -76,39 +77,50 @@ class ShapeForm(QWidget):
                             lo=0.0 if unit == "mm" and label in _NON_NEGATIVE else -1e6)
             self.fields.append((f, get))
             form.addRow(label, f)
-        self.table: QTableWidget | None = None
+        self.tables: list[tuple[int, QTableWidget]] = []
         if isinstance(shape, (Polygon, Path)):
-            self._add_table(form, shape)
+            self._add_tables(form, shape)
         self.show_shape(shape)
 
-    def _add_table(self, form: QFormLayout, shape: Polygon | Path) -> None:
-        cols = ["x (mm)", "y (mm)"] + (["corner r (mm)"] if isinstance(shape, Polygon) else [])
-        t = QTableWidget(len(shape.points), len(cols))
-        t.setHorizontalHeaderLabels(cols)
-        t.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Stretch)
-        t.verticalHeader().setDefaultSectionSize(22)
-        t.setSelectionMode(QAbstractItemView.SelectionMode.SingleSelection)
-        t.setMinimumHeight(min(300, 30 + 22 * len(shape.points)))
-        t.itemChanged.connect(self._on_cell)
-        self.table = t
-        form.addRow(QLabel("Outline vertices"))
-        form.addRow(t)
-        if isinstance(shape, Polygon) and shape.holes:
-            form.addRow(QLabel(f"{len(shape.holes)} hole(s): edit their vertices on the canvas"))
+    def _add_tables(self, form: QFormLayout, shape: Polygon | Path) -> None:
+        rings = [shape.points, *getattr(shape, "holes", ())]
+        for k, ring in enumerate(rings):
+            title = "Outline vertices" if k == 0 else f"Hole {k} vertices"
+            if len(ring) > se.DENSE_RING:
+                form.addRow(QLabel(f"{title}: a traced curve of {len(ring)} points, moved "
+                                   "with the part"))
+                continue
+            radius = k == 0 and isinstance(shape, Polygon)
+            cols = ["x (mm)", "y (mm)"] + (["corner r (mm)"] if radius else [])
+            t = QTableWidget(len(ring), len(cols))
+            t.setHorizontalHeaderLabels(cols)
+            t.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Stretch)
+            t.verticalHeader().setDefaultSectionSize(22)
+            t.setSelectionMode(QAbstractItemView.SelectionMode.SingleSelection)
+            t.setMinimumHeight(min(300, 30 + 22 * len(ring)))
+            t.itemChanged.connect(lambda item, k=k: self._on_cell(k, item))
+            self.tables.append((k, t))
+            form.addRow(QLabel(title))
+            form.addRow(t)
+
+    @property
+    def table(self) -> QTableWidget | None:
+        """The outline's vertex table (None for shapes without one)."""
+        return self.tables[0][1] if self.tables and self.tables[0][0] == 0 else None
 
     def show_shape(self, shape: Shape) -> None:
         """Display ``shape`` (same form key as the one the form was built for)."""
         self.shape = shape
         for f, get in self.fields:
             f.show_value(get(shape))
-        if self.table is None:
-            return
+        rings = [getattr(shape, "points", ()), *getattr(shape, "holes", ())]
         radii = self._radii()
-        with QSignalBlocker(self.table):
-            for i, (x, y) in enumerate(shape.points):  # type: ignore[union-attr]
-                row = [x, y] + ([radii[i]] if radii is not None else [])
-                for j, v in enumerate(row):
-                    self.table.setItem(i, j, QTableWidgetItem(f"{v:.6g}"))
+        for k, t in self.tables:
+            with QSignalBlocker(t):
+                for i, (x, y) in enumerate(rings[k]):
+                    row = [x, y] + ([radii[i]] if k == 0 and radii is not None else [])
+                    for j, v in enumerate(row):
+                        t.setItem(i, j, QTableWidgetItem(f"{v:.6g}"))
 
     def _radii(self) -> list[float] | None:
         if not isinstance(self.shape, Polygon):
@@ -119,7 +131,7 @@ class ShapeForm(QWidget):
     def _put(self, put: Callable, v: float) -> None:
         self.commit(put(self.shape, v))
 
-    def _on_cell(self, item: QTableWidgetItem) -> None:
+    def _on_cell(self, ring: int, item: QTableWidgetItem) -> None:
         try:
             v = float(item.text().replace(",", "."))
         except ValueError:
@@ -128,16 +140,16 @@ class ShapeForm(QWidget):
             return
         i, j = item.row(), item.column()
         s = self.shape
-        assert isinstance(s, (Polygon, Path))
-        if j < 2:
-            pts = list(s.points)
-            pts[i] = (v, pts[i][1]) if j == 0 else (pts[i][0], v)
-            self.commit(replace(s, points=tuple(pts)))
-            return
-        radii = self._radii()
-        assert radii is not None and isinstance(s, Polygon)
-        radii[i] = v
-        self.commit(replace(s, corner_radius=radii[0] if len(set(radii)) == 1 else tuple(radii)))
+        try:
+            if j < 2:
+                old = dict(se.vertices(s))[(ring, i)]
+                new = (v, old[1]) if j == 0 else (old[0], v)
+                self.commit(se.with_vertex_moved(s, (ring, i), new))
+            else:
+                self.commit(se.with_corner_radius(s, (0, i), v))
+        except se.EditError as exc:
+            self.status(f"{exc}; the vertex is unchanged")
+            self.show_shape(self.shape)
 
 
 _NON_NEGATIVE = {"Radius", "Semi-axis a", "Semi-axis b", "Corner radius", "Width"}

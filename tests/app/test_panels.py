@@ -67,6 +67,12 @@ def test_vertex_table_edit_and_bad_number(win) -> None:  # noqa: ANN001
     assert "not a number" in win.statusBar().currentMessage()
     table.item(3, 2).setText("2.5")
     assert win.doc.part(plate).shape.corner_radius == (1.0, 1.0, 0.0, 2.5)
+    table.item(3, 2).setText("-1")
+    assert win.doc.part(plate).shape.corner_radius == (1.0, 1.0, 0.0, 2.5)
+    assert "corner radius" in win.statusBar().currentMessage()
+    hole = win.properties_panel.shape_form.tables[1][1]
+    hole.item(2, 0).setText("12")
+    assert win.doc.part(plate).shape.holes[0][2] == (12.0, -65.0)
 
 
 def test_layout_settings_panel(qtbot, win) -> None:  # noqa: ANN001
