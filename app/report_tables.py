@@ -22,15 +22,13 @@ from solver.layout import FixedLimit, Layout
 from solver.solution import PartResult, Solution
 
 from .caution import CAUTION
-from .report_numbers import fitted_title, fmt_num, fmt_point, fmt_si, point_decimals
+from .report_numbers import fmt_num, fmt_point, fmt_si, point_decimals
 
 A4_PORTRAIT_IN = (8.27, 11.69)
 MAX_HOT_SPOT_ROWS = 18
 MAX_PART_ROWS = 24
 MAX_MATRIX_CONDUCTORS = 6
 CHARGE_ROUND_OFF = 1e-9
-TITLE_CHARS_AT_15PT = 58
-"""Characters of a bold 15 pt title across the portrait page (measured, DejaVu Sans)."""
 
 
 def charge_unit(layout: Layout) -> str:
@@ -62,10 +60,12 @@ def summary_rows(solution: Solution) -> list[list[str]]:
 
 
 def _peak_with_error(p: PartResult) -> str:
-    text = fmt_num(p.peak_field_kV_per_mm)
+    """The surface peak with its error estimate, or a sharp-corner warning."""
+    text = fmt_num(surface_peak(p))
     if p.sharp_corner:
         return text + " (sharp corner)"
-    if p.error_percent is not None and math.isfinite(p.error_percent):
+    if p.kind != "dielectric" and p.error_percent is not None and \
+            math.isfinite(p.error_percent):
         return f"{text} ± {p.error_percent:.2g} %"
     return text
 
@@ -82,22 +82,37 @@ def view_decimals(solution: Solution) -> int:
     return max(point_decimals(max(x1 - x0, y1 - y0)), point_decimals(10.0 * smallest))
 
 
+def surface_peak_at(p: PartResult) -> tuple[float, float] | None:
+    """Where :func:`surface_peak` sits (the gas-side peak for a dielectric)."""
+    if p.kind == "dielectric" and p.surface_peak_at_mm is not None:
+        return p.surface_peak_at_mm
+    return p.peak_at_mm
+
+
 def part_rows(solution: Solution) -> list[list[str]]:
-    """Page-2 parts table, one row per part (dielectrics: gas-side surface field too)."""
+    """Page-2 parts table, one row per part: the surface field the limit applies to.
+
+    For a dielectric that is the gas-side field on its outline; the field inside the
+    body is in :func:`dielectric_rows`.
+    """
     d = view_decimals(solution)
     rows = []
     for p in solution.parts[:MAX_PART_ROWS]:
         volts = "–" if p.volts is None else fmt_num(p.volts / 1e3)
         if p.kind == "floating" and p.volts is not None:
             volts += " (solved)"
-        where = fmt_point(p.peak_at_mm, d)
-        if p.kind == "dielectric":
-            where += f"; surface {fmt_num(p.surface_field_kV_per_mm)} at " \
-                     f"{fmt_point(p.surface_peak_at_mm, d)}"
-        rows.append([p.name, p.kind, volts, _peak_with_error(p), where,
-                     fmt_num(p.limit_at_peak_kV_per_mm),
+        rows.append([p.name, p.kind, volts, _peak_with_error(p),
+                     fmt_point(surface_peak_at(p), d), fmt_num(p.limit_at_peak_kV_per_mm),
                      f"{p.margin_percent:+.1f}" if math.isfinite(p.margin_percent) else "–"])
     return rows
+
+
+def dielectric_rows(solution: Solution) -> list[list[str]]:
+    """Dielectric bodies: relative permittivity and the largest field inside (kV/mm, mm)."""
+    d = view_decimals(solution)
+    return [[p.name, fmt_num(solution.layout.part(p.name).permittivity),
+             fmt_num(p.peak_field_kV_per_mm), fmt_point(p.peak_at_mm, d)]
+            for p in solution.parts if p.kind == "dielectric"]
 
 
 def hot_spot_rows(solution: Solution) -> tuple[list[list[str]], int]:
@@ -233,23 +248,26 @@ def render_tables_page(solution: Solution, source_name: str, when: datetime) -> 
     """Page 2: parts, hot spots, charges and capacitances, settings, solver statistics."""
     fig = Figure(figsize=A4_PORTRAIT_IN)
     cur = _Cursor(fig)
-    title, size = fitted_title(f"{solution.layout.title or source_name}: numbers",
-                               TITLE_CHARS_AT_15PT)
-    fig.text(cur.left, cur.y, title, fontsize=size, weight="bold", va="top")
-    cur.y -= cur._dy(18)
+    fig.text(cur.left, cur.y, "Results in numbers", fontsize=14, weight="bold", va="top")
+    cur.y -= cur._dy(20)
+    for line in textwrap.wrap(solution.layout.title or source_name, 95):
+        cur.line(line, size=9.5)
     cur.line(f"{source_name} · {solution.layout.symmetry} · {when:%Y-%m-%d %H:%M} UTC",
              colour="#555555")
-    cur.heading("Parts (field kV/mm, potential kV, coordinates mm)")
-    cur.table(["part", "kind", "potential kV", "peak field kV/mm", "peak at (mm)",
+    cur.heading("Parts: peak surface field (kV/mm), potential (kV), coordinates (mm)")
+    cur.table(["part", "kind", "potential kV", "peak field kV/mm", "at (mm)",
                "limit kV/mm", "margin %"], part_rows(solution),
               [1.3, 0.85, 1.15, 1.65, 1.75, 1.0, 0.9],
               [False, False, True, True, False, True, True])
     if len(solution.parts) > MAX_PART_ROWS:
         cur.line(f"… and {len(solution.parts) - MAX_PART_ROWS} more parts (all are in "
                  f"'stresslens solve --json').", size=8)
-    if any(p.kind == "dielectric" for p in solution.parts):
-        cur.line("Dielectrics: peak field inside the body; 'surface' is the gas-side field "
-                 "on the outline, the one the limit applies to.", size=7.5, colour="#555555")
+    inside = dielectric_rows(solution)
+    if inside:
+        cur.line("For a dielectric the surface field is the gas-side field on its outline "
+                 "(where surface flashover starts); the field inside it:", size=8)
+        cur.table(["dielectric", "εr", "field inside kV/mm", "at (mm)"], inside,
+                  [1.6, 0.8, 1.7, 1.6], [False, True, True, False], span=0.72)
     _hot_spot_section(cur, solution)
     _charge_section(cur, solution)
     cur.heading("Settings")

@@ -32,7 +32,13 @@ from app.caution import CAUTION
 from app.plotting import ReportOverlays, equipotential_levels, nice_step
 from app.report import FIGURE_DPI, ReportError, render_figure, write_report
 from app.report_numbers import fmt_num
-from app.report_tables import charge_rows, part_rows, summary_rows, view_decimals
+from app.report_tables import (
+    charge_rows,
+    dielectric_rows,
+    part_rows,
+    summary_rows,
+    view_decimals,
+)
 from solver.layout import layout_to_json, parse_layout
 
 WHEN = datetime(2026, 3, 14, 9, 30, tzinfo=timezone.utc)
@@ -88,7 +94,7 @@ def test_pdf_has_figure_and_tables_pages_with_the_solved_numbers(tmp_path: Path)
     assert CAUTION in str(reader.metadata.get("/Subject"))
     for p in sol.parts:
         assert p.name in page2 and p.kind in page2
-        printed = fmt_num(p.peak_field_kV_per_mm)
+        printed = fmt_num(p.peak_field_kV_per_mm)  # the inside field for a dielectric
         assert printed in page2
         assert float(printed) == pytest.approx(p.peak_field_kV_per_mm, rel=5e-4)
         assert f"{p.margin_percent:+.1f}" in page2
@@ -117,13 +123,22 @@ def test_table_rows_carry_the_solution_values() -> None:
         assert _numbers(row[1])[0] == pytest.approx(field, rel=5e-4)
         assert _numbers(row[2])[0] == pytest.approx(p.limit_at_peak_kV_per_mm, rel=5e-4)
         assert _numbers(row[3])[0] == pytest.approx(p.margin_percent, abs=0.05)
+    half_digit = 0.5 * 10.0 ** -view_decimals(sol)
     for row, p in zip(part_rows(sol), sol.parts, strict=True):
-        assert _numbers(row[3])[0] == pytest.approx(p.peak_field_kV_per_mm, rel=5e-4)
+        surface = p.kind == "dielectric"
+        field = p.surface_field_kV_per_mm if surface else p.peak_field_kV_per_mm
+        at = p.surface_peak_at_mm if surface else p.peak_at_mm
+        assert _numbers(row[3])[0] == pytest.approx(field, rel=5e-4)
         if p.volts is not None:
             assert _numbers(row[2])[0] * 1e3 == pytest.approx(p.volts, rel=5e-4, abs=1e-9)
         x, y = _numbers(row[4])[:2]
-        half_digit = 0.5 * 10.0 ** -view_decimals(sol)
-        assert (x, y) == pytest.approx(p.peak_at_mm, abs=half_digit * 1.001)
+        assert (x, y) == pytest.approx(at, abs=half_digit * 1.001)
+    inside = {row[0]: row for row in dielectric_rows(sol)}
+    assert set(inside) == {p.name for p in sol.parts if p.kind == "dielectric"} != set()
+    for name, row in inside.items():
+        p = sol.part(name)
+        assert float(row[1]) == sol.layout.part(name).permittivity
+        assert float(row[2]) == pytest.approx(p.peak_field_kV_per_mm, rel=5e-4)
 
 
 def _contours(fig: object) -> ContourSet:
