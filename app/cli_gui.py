@@ -71,9 +71,25 @@ def run(args: argparse.Namespace) -> int:
             print(NO_DISPLAY_MESSAGE, file=sys.stderr)
             return 3
         os.environ["QT_QPA_PLATFORM"] = "offscreen"
+    problem = qt_problem()
+    if problem:
+        print(problem, file=sys.stderr)
+        return 1
     if args.screenshot:
         return _screenshot(args.layout, Path(args.screenshot), size, args.timeout)
     return _interactive(args.layout)
+
+
+def qt_problem() -> str | None:
+    """Why the Qt libraries cannot load (None when they can), in words that say what to do."""
+    try:
+        import PySide6.QtWidgets  # noqa: F401
+    except ImportError as exc:
+        return (f"stresslens: the Qt libraries cannot be loaded ({exc}).\n"
+                "  On Debian or Ubuntu install: libglib2.0-0 libegl1 libgl1 libx11-6 "
+                "libdbus-1-3 libfontconfig1 libfreetype6 libxkbcommon0\n"
+                "  ('make setup' run as root installs them).")
+    return None
 
 
 def make_app() -> QApplication:

@@ -129,3 +129,19 @@ def test_keys_help_lists_the_shortcuts_of_the_actions(qtbot, tmp_path: Path,
                       ("Shift+R", "Corner radius")):
         assert f"<b>{key}</b></td><td>{what}" in seen[0], key
     assert "Space + drag" in seen[0]
+
+
+def test_missing_qt_libraries_are_explained(monkeypatch) -> None:  # noqa: ANN001
+    # common practice, no source: a missing system library is named with what to install
+    import builtins
+
+    from app import cli_gui
+    real_import = builtins.__import__
+
+    def no_qt(name, *a, **k):  # noqa: ANN001, ANN002, ANN003, ANN202
+        if name.startswith("PySide6.QtWidgets"):
+            raise ImportError("libglib-2.0.so.0: cannot open shared object file")
+        return real_import(name, *a, **k)
+    monkeypatch.setattr(builtins, "__import__", no_qt)
+    msg = cli_gui.qt_problem()
+    assert msg is not None and "libglib-2.0.so.0" in msg and "libglib2.0-0" in msg
