@@ -33,8 +33,8 @@ from .layout import Layout, LayoutError, Resolution
 # cells per local length, growth per cell, cells across the region of interest
 RESOLUTION_SETTINGS: dict[str, tuple[float, float, float]] = {
     "draft": (8.0, 0.20, 20.0),
-    "normal": (20.0, 0.12, 40.0),
-    "fine": (40.0, 0.08, 64.0),
+    "normal": (24.0, 0.12, 40.0),
+    "fine": (52.0, 0.08, 64.0),
 }
 BAND_BY_RESOLUTION = {"draft": 3.0, "normal": 6.0, "fine": 8.0}
 BAND_CELLS = 6.0
