@@ -85,8 +85,11 @@ class RecoveryFile:
     def describe(self) -> str:
         """'bus_bar.layout.json, autosaved 2026-12-01 22:50' (local time)."""
         name = self.original_path.name if self.original_path else "an untitled layout"
-        when = self.saved_at.astimezone().strftime("%Y-%m-%d %H:%M")
-        return f"{name}, autosaved {when}"
+        return f"{name}, autosaved {self.when()}"
+
+    def when(self) -> str:
+        """The time of the autosave, local, to the minute."""
+        return self.saved_at.astimezone().strftime("%Y-%m-%d %H:%M")
 
 
 # ---------------------------------------------------------------------- processes
@@ -287,14 +290,16 @@ class Autosave(QObject):
         if not found:
             return False
         rec = found[0]
+        where = (f"{rec.original_path.name} (in {rec.original_path.parent})"
+                 if rec.original_path else "an untitled layout")
         more = (f"\n\n({len(found) - 1} older recovery file(s) will be offered next time.)"
                 if len(found) > 1 else "")
         SB = QMessageBox.StandardButton
         answer = QMessageBox.question(
             self.window, "Recover unsaved work",
-            f"Stresslens did not close normally last time. Unsaved changes were kept:\n\n"
-            f"    {rec.describe()}\n\nRestore them now? (No keeps them for next time; "
-            f"Discard deletes them.){more}",
+            f"Stresslens did not close normally last time, and unsaved changes were "
+            f"kept:\n\n    {where}\n    autosaved {rec.when()}\n\nYes restores them. "
+            f"No keeps them for next time. Discard deletes them.{more}",
             SB.Yes | SB.No | SB.Discard, SB.Yes)
         if answer == SB.Discard:
             rec.path.unlink(missing_ok=True)
