@@ -94,6 +94,22 @@ def solution_json(sol: Solution, inception: Any = None) -> dict[str, Any]:
     return out
 
 
+def _capacitance_lines(sol: Solution) -> list[str]:
+    """The Maxwell capacitance matrix in pF/m (planar) or pF (axisymmetric)."""
+    names = sol.conductor_names
+    if not names or sol.capacitance.size == 0:
+        return []
+    unit = "pF/m" if sol.layout.symmetry == "planar" else "pF"
+    width = max(10, max(len(n) for n in names) + 2)
+    out = ["", f"capacitance matrix, {unit} (charge on the row's conductor per volt on the "
+           f"column's, the others at 0 V):", " " * width + "".join(f"{n[:width - 1]:>{width}}"
+                                                                   for n in names)]
+    for name, row in zip(names, sol.capacitance, strict=True):
+        out.append(f"{name[:width - 1]:<{width}}" + "".join(f"{c * 1e12:>{width}.4g}"
+                                                           for c in row))
+    return out
+
+
 def solution_table(sol: Solution, inception: Any = None) -> str:
     """A plain-text table of the results, every number with its unit."""
     q_unit = "C/m" if sol.layout.symmetry == "planar" else "C"
@@ -114,6 +130,7 @@ def solution_table(sol: Solution, inception: Any = None) -> str:
                      f"{at:<18}{q:>14}{flag}")
         if p.kind == "dielectric" and p.surface_field_kV_per_mm is not None:
             lines.append(f"{'':<18}{'(gas side)':<11}{'':>13}{p.surface_field_kV_per_mm:>12.4g}")
+    lines += _capacitance_lines(sol)
     lines.append("")
     if sol.hot_spots:
         lines.append(f"{len(sol.hot_spots)} hot spot(s) above the limit:")
