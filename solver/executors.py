@@ -65,6 +65,15 @@ def one_blas_thread() -> None:
     threadpool_limits(limits=1)
 
 
+def _worker_start() -> None:
+    """Worker-process start-up: one BLAS thread, and the solver imported once, up front."""
+    one_blas_thread()
+    import importlib
+
+    for name in ("solver.api", "solver.sweep", "solver.inception"):
+        importlib.import_module(name)
+
+
 class SerialExecutor:
     """Every step in this process, in order."""
 
@@ -102,7 +111,7 @@ class ProcessExecutor:
 
             self._pool = ProcessPoolExecutor(
                 max_workers=self.workers, mp_context=multiprocessing.get_context("spawn"),
-                initializer=one_blas_thread)
+                initializer=_worker_start)
         return self._pool
 
     def run(self, fn: Callable[[T], R], items: Sequence[T],
