@@ -30,12 +30,14 @@ from .canvas_grid import draw_grid, draw_rulers, grid_steps
 from .document import Document
 from .hit_test import part_at
 from .items import BoundaryItem, PartItem
+from .label_layout import declutter
 from .preview_item import PreviewItem
 from .problem_marks import problem_parts, problem_point
 from .selection import Selection
 from .tools import TOOL_CLASSES, Tool, ToolContext
 
 PICK_PX = 7.0
+MAX_DECLUTTER = 150
 ZOOM_STEP = 1.15
 SCENE_HALF_MM = 1.0e6
 KEY_NAMES = {Qt.Key.Key_Return: "Return", Qt.Key.Key_Enter: "Enter",
@@ -141,12 +143,33 @@ class Canvas(QGraphicsView):
             item.setZValue(k / n)
             item.highlighted = pid in self.selection
             item.set_part(self.doc.part(pid), vmax)
+        self._declutter_labels()
 
     def _new_item(self, pid: int) -> PartItem:
         item = PartItem(pid, self.px_per_mm())
         self.items_by_id[pid] = item
         self.scene_.addItem(item)
         return item
+
+    def _declutter_labels(self) -> None:
+        """Place every part label, then shift overlapping ones apart on screen (for layouts
+        of up to ``MAX_DECLUTTER`` parts)."""
+        items = list(self.items_by_id.values())
+        ppm = self.px_per_mm()
+        for item in items:
+            item.place_label(ppm)  # from the base places, so old shifts do not pile up
+        if len(items) > MAX_DECLUTTER:
+            return
+        t = self.viewportTransform()
+        boxes = []
+        for item in items:
+            c = t.map(item.label.scenePos())
+            r = item.label.boundingRect()
+            boxes.append((c.x() + r.left(), c.y() + r.top(), c.x() + r.right(),
+                          c.y() + r.bottom()))
+        for item, dy in zip(items, declutter(boxes), strict=True):
+            if dy:
+                item.label.setPos(item.label.pos() - QPointF(0.0, dy / ppm))
 
     def _on_part_added(self, pid: int) -> None:
         self._new_item(pid)
@@ -166,6 +189,7 @@ class Canvas(QGraphicsView):
             self._restyle_all()
         else:
             item.set_part(new, self._max_abs_volts())
+            self._declutter_labels()
         self._on_preview_changed()
 
     def _on_settings_changed(self) -> None:
@@ -274,8 +298,7 @@ class Canvas(QGraphicsView):
     def _sync_scale(self) -> None:
         ppm = self.px_per_mm()
         self.resetCachedContent()
-        for item in self.items_by_id.values():
-            item.place_label(ppm)
+        self._declutter_labels()
         self.ctx.tol_mm = PICK_PX / ppm
         self.ctx.snapper.grid_mm = grid_steps(ppm)[0]
         self.viewport().update()

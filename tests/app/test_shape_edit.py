@@ -111,3 +111,18 @@ def test_ellipse_handle_sets_axis_and_angle() -> None:
     assert f.radii == pytest.approx((5.0, 2.0)) and f.angle_deg == pytest.approx(53.130102)
     g = se.with_vertex_moved(f, (0, 1), (0.0, 3.0))
     assert g.radii == pytest.approx((5.0, 3.0))
+
+
+def test_label_boxes_are_shifted_apart_and_tidy_ones_left_alone() -> None:
+    # common practice, no source: overlapping labels move down just clear of each other
+    from app.label_layout import GAP_PX, declutter
+    tidy = [(0, 0, 50, 20), (60, 0, 110, 20), (0, 30, 50, 50)]
+    assert declutter(tidy) == [0.0, 0.0, 0.0]
+    stacked = [(0, 0, 50, 20), (10, 5, 60, 25), (20, 10, 70, 30)]
+    dy = declutter(stacked)
+    assert dy[0] == 0.0 and dy[1] == 20 + GAP_PX - 5
+    moved = [(x0, y0 + d, x1, y1 + d) for (x0, y0, x1, y1), d in zip(stacked, dy, strict=True)]
+    for i in range(3):
+        for j in range(i):
+            a, b = moved[i], moved[j]
+            assert not (a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3])
