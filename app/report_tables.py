@@ -23,11 +23,15 @@ from solver.solution import PartResult, Solution
 
 from .caution import CAUTION
 from .report_numbers import fmt_num, fmt_point, fmt_si, point_decimals
+from .report_profile import draw_surface_profiles
 
 A4_PORTRAIT_IN = (8.27, 11.69)
 MAX_HOT_SPOT_ROWS = 18
 MAX_PART_ROWS = 24
 MAX_MATRIX_CONDUCTORS = 6
+PROFILE_BOTTOM = 0.12
+PROFILE_MIN_HEIGHT = 0.12
+"""Figure fractions: the profile's lower edge (above the caution) and least height."""
 CHARGE_ROUND_OFF = 1e-9
 
 
@@ -278,8 +282,20 @@ def render_tables_page(solution: Solution, source_name: str, when: datetime) -> 
               span=0.55)
     for note in solution.notes:
         cur.line(f"Note: {note}", size=8)
+    _profile_section(cur, solution)
     _caution_block(fig, cur.left, cur.right)
     return fig
+
+
+def _profile_section(cur: _Cursor, solution: Solution) -> None:
+    """The surface-field profile in the room left above the caution, if there is enough."""
+    bottom = PROFILE_BOTTOM
+    top = cur.y - cur._dy(46)
+    if top - bottom < PROFILE_MIN_HEIGHT:
+        return
+    cur.heading("Surface field along the outlines closest to their limit")
+    draw_surface_profiles(cur.fig, solution, (cur.left + 0.05, bottom, 0.55,
+                                              cur.y - cur._dy(8) - bottom))
 
 
 def _hot_spot_section(cur: _Cursor, solution: Solution) -> None:

@@ -338,3 +338,22 @@ def test_a_layout_with_no_field_still_gives_a_report(tmp_path: Path) -> None:
     out = write_report(sol, tmp_path / "lone.pdf", source_name="lone", when=WHEN)
     text = squash(" ".join(p.extract_text() for p in PdfReader(out).pages))
     assert "no field: all conductors at one potential" in text
+
+
+def test_surface_profile_on_the_tables_page_of_a_coax() -> None:
+    from app.report_tables import render_tables_page
+
+    sol = solved_coax()
+    fig = render_tables_page(sol, "coax", WHEN)
+    assert len(fig.axes) == 1, "the profile fits below the tables"
+    ax = fig.axes[0]
+    assert ax.get_xlabel() == "arc length along the outline (mm)"
+    assert ax.get_ylabel() == "surface field |E| (kV/mm)"
+    lines = {ln.get_label(): ln for ln in ax.lines}
+    core = lines["Core"]
+    s, e = np.asarray(core.get_xdata()), np.asarray(core.get_ydata())
+    # along the core E = V0 / (a ln(b/a)) everywhere, 2 pi a of outline (REFERENCES §1.1)
+    assert np.allclose(e, coax_field(np.array(COAX_A_MM)), rtol=0.01)
+    assert s[-1] == pytest.approx(2 * math.pi * COAX_A_MM, rel=0.01)
+    limit = lines["limit 0.5 kV/mm"]
+    assert np.allclose(limit.get_ydata(), 0.5)
