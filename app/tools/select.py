@@ -6,7 +6,7 @@ from solver.layout import Part, Point
 
 from .. import shape_edit as se
 from ..commands import MovePartsCommand, RemovePartsCommand
-from ..hit_test import part_at, parts_in_box
+from ..hit_test import part_at, parts_in_box, vertex_at
 from .base import Preview, Tool, ToolContext
 
 NUDGE_KEYS = {"Left": (-1, 0), "Right": (1, 0), "Up": (0, 1), "Down": (0, -1)}
@@ -28,6 +28,7 @@ class SelectTool(Tool):
         super().__init__(ctx)
         self.mode: str | None = None
         self.anchor: Point = (0.0, 0.0)
+        self.offset: Point = (0.0, 0.0)
         self.before: dict[int, Part] = {}
         self.delta: Point = (0.0, 0.0)
         self.box: tuple[Point, Point] | None = None
@@ -49,7 +50,7 @@ class SelectTool(Tool):
                 sel.set([pid])
             self.mode = "move"
             self.before = {i: self.ctx.doc.part(i) for i in sel.ids}
-            self.anchor = self.ctx.snap(pt, exclude=self.before)
+            self.anchor, self.offset = self._grip(pid, pt)
             self.delta = (0.0, 0.0)
         self._changed()
 
@@ -60,7 +61,8 @@ class SelectTool(Tool):
             self.box = (self.box[0], pt)
             self._changed()
         elif self.mode == "move":
-            q = self.ctx.snapper.snap(pt, self.ctx.tol_mm, self.before)[0]
+            grip = (pt[0] + self.offset[0], pt[1] + self.offset[1])
+            q = self.ctx.snapper.snap(grip, self.ctx.tol_mm, self.before)[0]
             self.delta = self._allowed((q[0] - self.anchor[0], q[1] - self.anchor[1]))
             self.ctx.status(f"Move by \u0394x = {self.delta[0]:.4g} mm, "
                             f"\u0394y = {self.delta[1]:.4g} mm")
@@ -106,6 +108,18 @@ class SelectTool(Tool):
         if self.mode == "box" and self.box is not None:
             return Preview(box=self.box)
         return None
+
+    def _grip(self, pid: int, pt: Point) -> tuple[Point, Point]:
+        """The point that follows the cursor, and its offset from the cursor.
+
+        Grabbed near one of its vertices, a part is carried by that vertex, so it snaps
+        exactly onto another part's vertex or outline; otherwise by the snapped cursor.
+        """
+        ref = vertex_at(self.ctx.doc.part(pid).shape, pt, self.ctx.tol_mm)
+        if ref is not None:
+            v = dict(se.handles(self.ctx.doc.part(pid).shape))[ref]
+            return v, (v[0] - pt[0], v[1] - pt[1])
+        return self.ctx.snap(pt, exclude=self.before), (0.0, 0.0)
 
     def _allowed(self, d: Point) -> Point:
         """Limit a displacement so an axisymmetric selection stays at r >= 0."""

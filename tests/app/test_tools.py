@@ -318,3 +318,16 @@ def test_shift_drag_cuts_a_round_hole_making_a_coaxial_ring(qapp) -> None:
     # the traced hole offers no handles; the four outer corners do
     ctx.selection.set(ctx.doc.ids())
     assert len(VertexTool(ctx).preview().handles) == 4
+
+
+def test_a_part_grabbed_at_a_corner_snaps_that_corner(qapp) -> None:
+    # common practice, no source: a part carried by its corner lands with that corner on
+    # the target vertex exactly, wherever in the tolerance the mouse was let go
+    ctx = make_ctx(snap=True, grid=7.0)
+    tool = SelectTool(ctx)
+    bar = ctx.doc.id_of("Bar")
+    # grab the bar's top-right corner (-20, 10) a little off and let go near the plate's
+    # corner (60, -60): the corner lands on it, though the grid (7 mm) would say otherwise
+    drag(tool, (-20.3, 9.8), (59.6, -59.7))
+    assert ctx.doc.part(bar).shape.max == (60.0, -60.0)
+    assert ctx.doc.part(bar).shape.min == (40.0, -80.0)
