@@ -82,6 +82,7 @@ class Canvas(QGraphicsView):
         self._left_down = False
         self._ruler_cache: tuple[tuple, QPixmap] | None = None
         self._auto_fit = True
+        self._hovered: int | None = None
         self._setup_view()
         self._connect_model()
         self._rebuild()
@@ -373,10 +374,21 @@ class Canvas(QGraphicsView):
                 self.ctx.snap(pt)  # show where a click would land
             self.tool.move(pt, self._left_down)
             self.preview_item.set_snap(self.ctx.last_snap)
+            self._hover(pt if self.tool.name == "select" and not self._left_down else None)
         event.accept()
+
+    def _hover(self, pt: tuple[float, float] | None) -> None:
+        pid = part_at(self.doc, pt, self.ctx.tol_mm) if pt is not None else None
+        if pid != self._hovered:
+            vmax = self._max_abs_volts()
+            for old_new, on in ((self._hovered, False), (pid, True)):
+                if old_new in self.items_by_id:
+                    self.items_by_id[old_new].set_hover(on, vmax)
+            self._hovered = pid
 
     def leaveEvent(self, event: QEvent) -> None:
         self.preview_item.set_snap(None)
+        self._hover(None)
         super().leaveEvent(event)
 
     def mouseReleaseEvent(self, event: QMouseEvent) -> None:

@@ -97,6 +97,7 @@ class PartItem(QGraphicsPathItem):
         self.valid = True
         self.highlighted = False
         self.problem = False
+        self.hover = False
         self.label = PartLabelItem(self)
         self._inside = QPointF()
         self._px_per_mm = px_per_mm
@@ -133,6 +134,12 @@ class PartItem(QGraphicsPathItem):
         self.highlighted = on
         self._style(max_abs_volts)
 
+    def set_hover(self, on: bool, max_abs_volts: float) -> None:
+        """Show that a click here would pick this part."""
+        if on != self.hover:
+            self.hover = on
+            self._style(max_abs_volts)
+
     def set_problem(self, on: bool, max_abs_volts: float) -> None:
         """Mark the part as named in the layout's current problem."""
         if on != self.problem:
@@ -142,8 +149,12 @@ class PartItem(QGraphicsPathItem):
     def _style(self, max_abs_volts: float) -> None:
         assert self.part is not None
         line, fill = palette.part_colours(self.part.kind, self.part.volts, max_abs_volts)
-        pen = QPen(palette.SELECTION if self.highlighted else line,
-                   2.2 if self.highlighted else 1.3)
+        if self.highlighted:
+            pen = QPen(palette.SELECTION, 2.2)
+        elif self.hover:
+            pen = QPen(palette.mix(line, palette.SELECTION, 0.6), 2.0)
+        else:
+            pen = QPen(line, 1.3)
         pen.setCosmetic(True)
         pen.setJoinStyle(Qt.PenJoinStyle.RoundJoin)
         if not self.valid or self.problem:

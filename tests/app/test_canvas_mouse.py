@@ -269,3 +269,16 @@ def test_problem_parts_and_place_are_marked(qtbot, tmp_path) -> None:  # noqa: A
     w.doc.replace_part(ball, original)
     qtbot.waitUntil(lambda: not items[ball].problem, timeout=2000)
     assert w.canvas.preview_item.problem_at is None
+
+
+def test_the_part_under_the_cursor_is_hinted(qtbot, tmp_path) -> None:  # noqa: ANN001
+    # common practice, no source: the select tool shows what a click would pick
+    w = open_window(qtbot, tmp_path, every_shape_layout())
+    items = w.canvas.items_by_id
+    bar, ball = w.doc.id_of("Bar"), w.doc.id_of("Ball")
+    qtbot.mouseMove(w.canvas.viewport(), px(w, -30.0, 0.0))
+    assert items[bar].hover and not items[ball].hover
+    qtbot.mouseMove(w.canvas.viewport(), px(w, 30.0, 0.0))
+    assert items[ball].hover and not items[bar].hover
+    qtbot.mouseMove(w.canvas.viewport(), px(w, 95.0, -45.0))
+    assert not any(i.hover for i in items.values())
