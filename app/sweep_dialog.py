@@ -22,7 +22,7 @@ from typing import Any
 import numpy as np
 from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg
 from matplotlib.figure import Figure
-from PySide6.QtCore import QObject, QRunnable, Qt, QThreadPool, Signal
+from PySide6.QtCore import Qt, QThreadPool
 from PySide6.QtGui import QCloseEvent, QUndoStack
 from PySide6.QtWidgets import (
     QComboBox,
@@ -43,71 +43,19 @@ from PySide6.QtWidgets import (
 )
 
 from solver.executors import ProcessExecutor, SerialExecutor, StepExecutor, usable_cores
-from solver.layout import RESOLUTION_NAMES, LayoutError, Polygon
-from solver.layout import Path as PathShape
-from solver.params import SIMPLE_PARAMS, apply_param, param_unit, param_value
+from solver.layout import RESOLUTION_NAMES, LayoutError
+from solver.params import apply_param, param_unit, param_value
 from solver.sweep import GoalResult, SweepResult, goal_seek, sweep
 
 from .caution import CAUTION
 from .commands import ChangePartCommand
 from .document import Document
+from .sweep_choices import default_range, part_params
 from .sweep_export import SweepExportError, goal_lines, write_sweep_csv
+from .sweep_job import Job, JobSignals
 from .sweep_plot import draw_sweep, fmt, summary_text
 
 TABLE_COLUMNS = ("value", "peak kV/mm", "limit kV/mm", "margin %", "inception x", "message")
-
-
-class _Signals(QObject):
-    """Lives in the GUI thread; the worker emits through it (queued to the GUI)."""
-
-    progress = Signal(int, int)
-    finished = Signal(object)
-
-
-class _Job(QRunnable):
-    """Runs ``work(progress, cancelled)`` and emits its result (or the exception)."""
-
-    def __init__(self, work: Callable[..., Any], signals: _Signals,
-                 cancel: threading.Event) -> None:
-        super().__init__()
-        self.work, self.signals, self.cancel = work, signals, cancel
-
-    def run(self) -> None:
-        try:
-            out: Any = self.work(lambda d, n: self.signals.progress.emit(d, n),
-                                 self.cancel.is_set)
-        except Exception as exc:  # noqa: BLE001 - shown to the user, never swallowed
-            out = exc
-        self.signals.finished.emit(out)
-
-
-def part_params(doc: Document, name: str) -> list[str]:
-    """The parameters the part called ``name`` has (those :func:`param_value` can read)."""
-    layout = doc.snapshot()
-    out = []
-    for p in SIMPLE_PARAMS:
-        try:
-            param_value(layout, name, p)
-            out.append(p)
-        except (LayoutError, ValueError):
-            continue
-    shape = layout.part(name).shape
-    if isinstance(shape, (Polygon, PathShape)):
-        out += [f"vertex:{k}:{a}" for k in range(1, len(shape.points) + 1) for a in "xy"]
-    return out
-
-
-def default_range(param: str, value: float) -> tuple[float, float]:
-    """A first range around the present value: x0.5..x2 for sizes, +-50 % for volts."""
-    if param in ("radius", "corner_radius", "width", "height") and value > 0:
-        return 0.5 * value, 2.0 * value
-    if param == "corner_radius":
-        return 0.5, 5.0
-    if param == "permittivity":
-        return 1.0, max(2.0, 2.0 * value)
-    if param == "volts" and value:
-        return sorted((0.5 * value, 1.5 * value))  # type: ignore[return-value]
-    return value - 10.0, value + 10.0
 
 
 class SweepDialog(QDialog):
@@ -122,7 +70,7 @@ class SweepDialog(QDialog):
         self._cancel = threading.Event()
         self._pool = QThreadPool(self)
         self._pool.setMaxThreadCount(1)
-        self._signals = _Signals(self)
+        self._signals = JobSignals(self)
         self._signals.progress.connect(self._on_progress)
         self._signals.finished.connect(self._on_finished)
         self._processes: ProcessExecutor | None = None
@@ -336,7 +284,7 @@ class SweepDialog(QDialog):
         self.progress.setRange(0, max(1, self.steps.value()))
         self.progress.setValue(0)
         self._say("Seeking the goal\u2026" if kind == "goal" else "Sweeping\u2026")
-        self._pool.start(_Job(work, self._signals, self._cancel))
+        self._pool.start(Job(work, self._signals, self._cancel))
 
     def cancel(self) -> None:
         """Ask the running job to stop after the steps in progress."""

@@ -192,8 +192,9 @@ def _task(layout: Layout, part: str, param: str, value: float,
     try:
         return (value, apply_param(layout, part, param, value), resolution, inception)
     except LayoutError as exc:
-        return (value, f"not a valid layout at {param} = {value:g} {param_unit(param)}: {exc}",
-                resolution, inception)
+        unit = param_unit(param)
+        return (value, f"not a valid layout at {param} = {value:g}{' ' + unit if unit else ''}:"
+                f" {exc}", resolution, inception)
 
 
 # --------------------------------------------------------------------------- sweep
