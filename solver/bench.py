@@ -342,7 +342,7 @@ def main(argv: list[str] | None = None) -> int:
                     help="seconds to let spsolve run on the 1M grid (default 240)")
     args = ap.parse_args(argv)
     t_start = time.perf_counter()
-    big = None if args.quick else million(0.026, args.spsolve_cap)
+    big = None if args.quick else million(0.0055, args.spsolve_cap)
     resolutions = ["draft", "normal"] + ([] if args.quick else ["fine"])
     targets: list[tuple[str, str, bool]] = []
     print("Stresslens solver benchmark (errors in %, against exact solutions)")
