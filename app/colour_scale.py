@@ -110,14 +110,18 @@ class ColourScale(QWidget):
         p.end()
 
     def _ticks(self, p: QPainter, bar: QRectF, lo: float, hi: float, note: str) -> None:
+        """Round values along the bar, and both ends (3 significant digits) when a
+        round value does not already sit there."""
         span = hi - lo if hi > lo else 1.0
+        ticks = [v for v in nice_ticks(lo, hi) if abs(v - hi) > 0.12 * span
+                 and abs(v - lo) > 0.12 * span]
+        ticks = [lo, *ticks, hi]
         last_right = -1e9
-        for v in nice_ticks(lo, hi):
+        for k, v in enumerate(ticks):
             x = bar.left() + (v - lo) / span * bar.width()
             p.setPen(QPen(QColor("#5b574f"), 0.8))
             p.drawLine(QPointF(x, bar.bottom()), QPointF(x, bar.bottom() + 3))
-            text = f"{v:g}" + (f" {note}" if note and v == nice_ticks(lo, hi)[-1]
-                               and abs(v - hi) < 1e-9 * max(abs(hi), 1) else "")
+            text = f"{v:.3g}" + (f" {note}" if note and k == len(ticks) - 1 else "")
             w = self.fm.horizontalAdvance(text)
             left = min(max(x - w / 2, 2.0), self.width() - w - 2)
             if left > last_right + 4:

@@ -31,7 +31,7 @@ log = logging.getLogger(__name__)
 
 ZOOM_TO_HOT_SPOT_MM = 30.0
 """Width in mm of the view after clicking a hot spot (or the current width if smaller)."""
-RIGHT_DOCK_PX = 455
+RIGHT_DOCK_PX = 490
 """Default width of the results and profile docks: the parts table fits without scrolling."""
 STATE_STYLE = {"solving": "color: #7a5b00;", "ready": "color: #2f6b4a;",
                "failed": "color: #b3410e;", "idle": ""}

@@ -11,22 +11,36 @@ overlay geometry (equipotential polylines, field lines, the potential resampled 
 regular raster).  It touches no widget: it hands a plain :class:`LiveResult` back
 through a queued Qt signal, and the GUI thread builds the graphics items.
 
+The solve runs in a separate solver process (one, started with ``spawn`` and shared
+by every window), not merely in a thread: some library calls (SuperLU's
+factorisation in scipy, for one) hold Python's global interpreter lock for 100-200 ms,
+and in a thread that froze the GUI for as long.  The worker thread waits on the
+process, which costs the GUI nothing; the result (a few MB of arrays) comes back
+pickled.  A solver process that dies is replaced at the next request.
+
 While the user drags (``Document.interacting``) the ``draft`` resolution is used
 without the error estimate; otherwise the layout's own resolution with it.
 """
 
 from __future__ import annotations
 
+import logging
 import math
+import multiprocessing
+import os
+import threading
 import time
 import traceback
 from collections.abc import Callable
+from concurrent.futures import ProcessPoolExecutor
+from concurrent.futures.process import BrokenProcessPool
 from dataclasses import dataclass, field, replace
 
 import numpy as np
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, Signal
 
 import solver
+from solver.executors import one_blas_thread
 from solver.layout import Layout, LayoutError, Resolution
 from solver.solution import Solution
 
@@ -122,7 +136,7 @@ def equipotential_levels(solution: Solution, step: EquipotentialStep | float
 def resample(solution: Solution, px: int = RASTER_PX
              ) -> tuple[np.ndarray, np.ndarray, tuple[float, float, float, float]]:
     """Potential (V) and field magnitude (kV/mm) bilinearly resampled on a regular
-    raster over the view box.
+    raster over the view box (over the whole box of a layout with a boundary box).
 
     The solver's grid is graded (fine near the parts), so the node values are first
     mapped to fractional grid indices per axis, then interpolated.  Nodes inside a
@@ -131,6 +145,9 @@ def resample(solution: Solution, px: int = RASTER_PX
     from scipy.ndimage import map_coordinates
 
     x0, y0, x1, y1 = solution.view_box_mm
+    b = solution.layout.boundary
+    if b.type == "box" and b.min is not None and b.max is not None:
+        x0, y0, x1, y1 = (*b.min, *b.max)  # the whole solved box, not just round the parts
     gx, gy = solution.x_mm, solution.y_mm
     x0, x1 = max(x0, gx[0]), min(x1, gx[-1])
     y0, y1 = max(y0, gy[0]), min(y1, gy[-1])
@@ -217,6 +234,82 @@ def field_scale_top(sol: Solution, emag: np.ndarray) -> float:
     return top if top > 0 else 1.0
 
 
+log = logging.getLogger(__name__)
+
+_SOLVER_PROCESS: ProcessPoolExecutor | None = None
+_IN_THREAD = False
+"""Set when no solver process can be started: solves then run in the worker thread."""
+_PROCESS_LOCK = threading.Lock()
+_FAILURES = [0]
+
+
+def solver_process() -> ProcessPoolExecutor:
+    """The shared solver process (started on first use, with one BLAS thread)."""
+    global _SOLVER_PROCESS
+    with _PROCESS_LOCK:
+        if _SOLVER_PROCESS is None:
+            _SOLVER_PROCESS = ProcessPoolExecutor(
+                max_workers=1, mp_context=multiprocessing.get_context("spawn"),
+                initializer=_start_solver_process, initargs=(os.getpid(),))
+        return _SOLVER_PROCESS
+
+
+def in_solver_process(fn: Callable[..., LiveResult], *args: object) -> LiveResult:
+    """``fn(*args)`` run in the solver process; blocks the calling (worker) thread only.
+
+    When the process cannot start (a script without the ``if __name__ == "__main__"``
+    guard that ``spawn`` needs) or dies, it is dropped and this solve, like the later
+    ones after a second failure, runs here in the worker thread instead: slower to
+    give way to the GUI, but the user gets the result.
+    """
+    global _SOLVER_PROCESS, _IN_THREAD
+    if not _IN_THREAD:
+        try:
+            return solver_process().submit(fn, *args).result()
+        except (BrokenProcessPool, RuntimeError) as exc:
+            with _PROCESS_LOCK:
+                _FAILURES[0] += 1
+                _IN_THREAD = _FAILURES[0] >= 2
+                _SOLVER_PROCESS = None
+            log.warning("solver process unavailable (%s); solving in a thread", _first_line(exc))
+    return fn(*args)
+
+
+def warm_up() -> None:
+    """Start the solver process and import the solver there, ahead of the first solve."""
+    global _IN_THREAD
+    if _IN_THREAD:
+        return
+    try:
+        solver_process().submit(_import_solver)
+    except RuntimeError as exc:  # spawn refused (no __main__ guard in the caller)
+        _IN_THREAD = True
+        log.warning("no solver process (%s); solving in a thread", _first_line(exc))
+
+
+def _start_solver_process(parent_pid: int) -> None:
+    """Set-up of the solver process: one BLAS thread, and a watch that ends it as soon
+    as the program that started it is gone (killed, crashed), so no orphan is left
+    holding its terminal or pipes."""
+    one_blas_thread()
+
+    def watch() -> None:
+        while os.getppid() == parent_pid:
+            time.sleep(0.5)
+        os._exit(0)
+
+    threading.Thread(target=watch, name="parent-watch", daemon=True).start()
+
+
+def _first_line(exc: BaseException) -> str:
+    text = str(exc).strip()
+    return text.splitlines()[0] if text else type(exc).__name__
+
+
+def _import_solver() -> None:
+    import solver  # noqa: F401 - the import is the work
+
+
 class _Relay(QObject):
     """Lives in the GUI thread; the worker emits through it (queued to the GUI)."""
 
@@ -275,6 +368,7 @@ class SolveRunner(QObject):
         self.message = ""
         self.dropped = 0
         self.step = EquipotentialStep()
+        warm_up()
 
     # ------------------------------------------------------------------ requests
 
@@ -283,8 +377,8 @@ class SolveRunner(QObject):
         resolution: Resolution = "draft" if draft else layout.resolution
         step = self.step
         self.latest_requested = max(self.latest_requested, revision)
-        self._pending = _Request(revision, lambda: compute(
-            layout, revision, resolution, not draft, step), f"solving ({resolution})")
+        self._pending = _Request(revision, lambda: in_solver_process(
+            compute, layout, revision, resolution, not draft, step), f"solving ({resolution})")
         self._set_state("solving", self._pending.label)
         self._start_next()
 

@@ -63,10 +63,17 @@ def capacitance_unit(axisymmetric: bool) -> tuple[str, float]:
     return ("pF" if axisymmetric else "pF/m"), 1.0e12
 
 
+def _mm(v: float) -> str:
+    """A coordinate in mm, short: 0.1 mm, or 3 significant digits from 100 mm up (the
+    cell's tooltip has it to 0.001 mm)."""
+    return f"{v:.3g}" if abs(v) >= 100 else f"{v:.1f}"
+
+
 def _table(rows: int, cols: int) -> QTableWidget:
     t = QTableWidget(rows, cols)
     t.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
     t.setWordWrap(False)
+    t.setStyleSheet("QTableView::item { padding: 0px 3px; }")
     t.verticalHeader().setDefaultSectionSize(22)
     t.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
     return t
@@ -139,7 +146,7 @@ class ResultsPanel(QWidget):
                 "\u2013" if p.volts is None else f"{p.volts / 1000:.4g}",
                 f"{p.peak_field_kV_per_mm:.3f}" + (" \u2220" if p.sharp_corner else ""),
                 "\u2013" if p.error_percent is None else f"{p.error_percent:.1f}",
-                f"{p.peak_at_mm[0]:.2f}, {p.peak_at_mm[1]:.2f}",
+                f"{_mm(p.peak_at_mm[0])}, {_mm(p.peak_at_mm[1])}",
                 f"{p.limit_at_peak_kV_per_mm:.2f}",
                 f"{p.margin_percent:.0f}",
                 q.split()[0],
@@ -157,6 +164,8 @@ class ResultsPanel(QWidget):
                 if col == 2 and p.sharp_corner:
                     item.setToolTip("the peak sits on a sharp corner: the true field there "
                                     "is unbounded; this value belongs to this grid")
+                if col == 4:
+                    item.setToolTip(f"peak at ({p.peak_at_mm[0]:.3f}, {p.peak_at_mm[1]:.3f}) mm")
                 if col == 6 and p.margin_percent < 0:
                     item.setForeground(QBrush(HOT_SPOT))
                 self.table.setItem(row, col, item)
