@@ -226,3 +226,22 @@ def test_a_real_mouse_drag_ends_with_a_full_solve_of_the_new_place(qtbot, tmp_pa
     assert end.peak_field_kV_per_mm > 1.3 * start  # the gap shrank from 15 mm to about 6 mm
     assert seen[-1] == "normal"
     assert w.stack.count() == 1  # one undoable move
+
+
+def test_the_probe_is_drawn_with_the_real_mouse(qtbot, tmp_path) -> None:
+    w, live = live_window(qtbot, tmp_path, rod_over_plate())
+    w.snapper.enabled = False
+    w.actions_["tool_probe"].trigger()
+    assert w.canvas.tool is live.probe_tool
+    mouse_drag(qtbot, w, (-20.0, 8.0), (20.0, 8.0))
+    (ax, ay), (bx, by) = live.probe_tool.segment
+    px_mm = 1.0 / w.canvas.px_per_mm()  # a mouse lands on whole pixels
+    assert abs(ax + 20.0) < 2 * px_mm and abs(bx - 20.0) < 2 * px_mm
+    assert abs(ay - 8.0) < 2 * px_mm and abs(by - 8.0) < 2 * px_mm
+    qtbot.waitUntil(lambda: "E" in live.profile.series, timeout=WAIT_MS)
+    s, e = live.profile.series["E"]
+    # common practice, no source: on a line parallel to the plate, under the rod's axis,
+    # the field is strongest right below the rod (the middle of the segment)
+    k = int(np.nanargmax(e))
+    assert abs(s[k] - s[-1] / 2) < 0.1 * s[-1]
+    assert w.doc.to_layout() == rod_over_plate()  # probing edits nothing
