@@ -64,9 +64,10 @@ def capacitance_unit(axisymmetric: bool) -> tuple[str, float]:
 
 
 def _mm(v: float) -> str:
-    """A coordinate in mm, short: 0.1 mm, or 3 significant digits from 100 mm up (the
-    cell's tooltip has it to 0.001 mm)."""
-    return f"{v:.3g}" if abs(v) >= 100 else f"{v:.1f}"
+    """A coordinate in mm, short: to 0.1 mm, or to 1 mm from 100 mm up (the cell's
+    tooltip has it to 0.001 mm)."""
+    text = f"{v:.0f}" if abs(v) >= 100 else f"{v:.1f}"
+    return "0.0" if text == "-0.0" else text
 
 
 def _table(rows: int, cols: int) -> QTableWidget:
