@@ -97,6 +97,9 @@ def main(argv: list[str] | None = None) -> int:
           f"cores they got {cpu_par / t_par:.2f}   speed-up {speedup:.2f}x")
     print(f"  {args.workers} processes, workers already running    {t_warm:8.2f} s   "
           f"speed-up {warm_speedup:.2f}x")
+    print(f"  CPU seconds: serial {cpu_serial:.1f}, {args.workers} processes {cpu_par:.1f} "
+          f"(start-up included): the processes add {100 * (cpu_par / cpu_serial - 1):+.0f} % "
+          f"work")
     print(f"  same numbers serial and parallel: {'yes' if same else 'NO'}")
     print(f"  load average (1 min) before {load0:.1f}, after {os.getloadavg()[0]:.1f} on "
           f"{usable_cores()} core(s); 'cores it got' = CPU seconds / wall seconds: below 1 "
