@@ -90,6 +90,7 @@ class Prepared:
     factor: Any
     scale: np.ndarray | None = None
 
+    @single_threaded_blas
     def solve(self, b: np.ndarray, x0: np.ndarray | None = None,
               rtol: float = RTOL) -> tuple[np.ndarray, SolveInfo]:
         """Solve :math:`A x = b`; returns x and a :class:`SolveInfo`."""
@@ -131,6 +132,7 @@ def _norm(v: np.ndarray) -> float:
     return float(np.sqrt(np.dot(v, v)))
 
 
+@single_threaded_blas
 def prepare(A: sp.csr_matrix, method: str | None = None) -> Prepared:
     """Factorise (small) or build an AMG hierarchy (large) for ``A``."""
     n = A.shape[0]
