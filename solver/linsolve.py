@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import functools
 import logging
+import threading
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Any, TypeVar
@@ -50,12 +51,21 @@ def single_threaded_blas(fn: F) -> F:
 
     @functools.wraps(fn)
     def wrapper(*args: Any, **kwargs: Any) -> Any:
+        if getattr(_limited, "active", False):
+            return fn(*args, **kwargs)  # an outer call has limited the threads already
         from threadpoolctl import threadpool_limits
 
-        with threadpool_limits(limits=1, user_api="blas"):
-            return fn(*args, **kwargs)
+        _limited.active = True
+        try:
+            with threadpool_limits(limits=1, user_api="blas"):
+                return fn(*args, **kwargs)
+        finally:
+            _limited.active = False
 
     return wrapper  # type: ignore[return-value]
+
+
+_limited = threading.local()
 
 
 class SolveError(RuntimeError):
