@@ -1,7 +1,12 @@
-"""Test-wide set-up: run Qt offscreen and matplotlib headless.
+"""Test-wide set-up: Qt offscreen, matplotlib headless, and a private home for settings.
 
-Both variables must be set before anything imports Qt or creates a QApplication: with
-no display and no platform chosen, Qt aborts the whole pytest process.
+- ``QT_QPA_PLATFORM=offscreen`` and ``MPLBACKEND=Agg`` must be set before anything
+  imports Qt or creates a QApplication: with no display and no platform chosen, Qt
+  aborts the whole pytest process.
+- The XDG configuration, data and state folders point into a fresh temporary folder
+  for the session, so tests never read or change the user's own settings, recent
+  files, autosaves or logs (QSettings and platformdirs both follow XDG on Linux), and
+  two test runs on one machine do not share them.  The cache folder is left alone.
 """
 
 from __future__ import annotations
@@ -13,9 +18,8 @@ import tempfile
 
 os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 os.environ.setdefault("MPLBACKEND", "Agg")
-# The log file and recovery files of a test run go to a private folder, never to the
-# user's own (app.logging_setup, app.autosave).
-_private = tempfile.mkdtemp(prefix="stresslens-tests-")
-atexit.register(shutil.rmtree, _private, ignore_errors=True)
-os.environ.setdefault("STRESSLENS_LOG_DIR", os.path.join(_private, "logs"))
-os.environ.setdefault("STRESSLENS_DATA_DIR", os.path.join(_private, "data"))
+
+_HOME = tempfile.mkdtemp(prefix="stresslens-tests-")
+atexit.register(shutil.rmtree, _HOME, ignore_errors=True)
+for _name in ("XDG_CONFIG_HOME", "XDG_DATA_HOME", "XDG_STATE_HOME"):
+    os.environ[_name] = os.path.join(_HOME, _name.split("_")[1].lower())
