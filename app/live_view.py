@@ -70,6 +70,7 @@ class LiveView(QObject):
         window.statusBar().addPermanentWidget(self.probe)
         window.statusBar().addPermanentWidget(self.status)
         self.shown_revision = -1
+        self._numbers_for: LiveResult | None = None
         self.usable: LiveResult | None = None
         """The newest converged result shown (kept on show when a later solve fails to
         converge)."""
@@ -192,13 +193,25 @@ class LiveView(QObject):
             self.schedule_profile()
 
     def _on_result(self, res: LiveResult) -> None:
-        self.shown_revision = res.revision
+        """Show a new result: the canvas overlays now, the numbers in a later pass of the
+        event loop (so no single pass keeps the GUI thread busy for long)."""
         if not res.solution.converged and self._keep_usable(res):
+            self.shown_revision = res.revision
             return
         self.usable = res if res.solution.converged else None
         self.overlays.show(res)
+        self._numbers_for = res
+        QTimer.singleShot(0, self._show_numbers)
+
+    def _show_numbers(self) -> None:
+        """The results table, colour scales and profile of the result just drawn; only
+        then is its revision counted as shown."""
+        res, self._numbers_for = self._numbers_for, None
+        if res is None or res is not self.overlays.result:
+            return
         self.panel.show_result(res)
         self._update_scale()
+        self.shown_revision = res.revision
         self.schedule_profile()
 
     def _keep_usable(self, res: LiveResult) -> bool:
