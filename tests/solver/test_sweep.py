@@ -15,7 +15,7 @@ import pytest
 from analytic_layouts import coax
 from scipy.optimize import brentq
 
-from solver.layout import FixedLimit, parse_layout
+from solver.layout import FixedLimit, PeekLimit, parse_layout
 from solver.params import ParamError
 from solver.sweep import goal_seek, sweep
 
@@ -56,6 +56,24 @@ def test_goal_seek_finds_the_analytic_radius() -> None:
     assert goal.value == pytest.approx(exact, rel=0.01)
     assert goal.utilisation <= fraction
     assert goal.peak_field_kV_per_mm == pytest.approx(fraction * LIMIT, rel=0.01)
+
+
+def test_goal_seek_against_peeks_law_finds_the_analytic_radius() -> None:
+    # a limit that changes with the radius: Peek's onset field of a smooth wire in air at
+    # delta = 1 (25 degC, 101.325 kPa: Peek's reference), g = 30 (1 + 0.301 / sqrt(r_cm))
+    # kV/cm (REFERENCES.md section 3, Wikipedia "Peek's law"); the coax field as above
+    volts, fraction = 20_000.0, 0.8
+
+    def peek_kV_per_mm(r_mm: float) -> float:
+        return 3.0 * (1.0 + 0.301 / math.sqrt(r_mm / 10.0))
+
+    exact = brentq(lambda r: coax_e(r, volts) - fraction * peek_kV_per_mm(r), 1.5, 5.0)
+    layout = replace(coax(5.0, BORE, volts, "normal"),
+                     limit=PeekLimit(pressure_kPa=101.325, temperature_C=25.0))
+    goal = goal_seek(layout, "inner", "radius", 1.5, 5.0, fraction, coarse_steps=5, xtol=5e-3)
+    assert goal.direction == "smallest"
+    assert goal.limit_kV_per_mm == pytest.approx(peek_kV_per_mm(goal.value), rel=0.005)
+    assert goal.value == pytest.approx(exact, rel=0.02)
 
 
 def test_goal_seek_in_a_window_reports_its_lower_end() -> None:
