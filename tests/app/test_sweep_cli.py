@@ -128,3 +128,14 @@ def test_unwritable_csv_exits_1(coax_file: Path, tmp_path: Path, capsys) -> None
                         "--to", "2", "--steps", "2", "--resolution", "draft", "--no-inception",
                         "--csv", tmp_path / "no_such_dir" / "s.csv")
     assert code == 1 and "no such folder" in err
+
+
+def test_worker_processes_print_the_serial_numbers(coax_file: Path, capsys) -> None:
+    # the solve is deterministic: where a step runs must not change its numbers
+    args = [coax_file, "--part", "Core", "--param", "radius", "--from", "5", "--to", "11",
+            "--steps", "4", "--resolution", "draft", "--json", "--no-inception"]
+    serial = json.loads(_run(capsys, *args)[1])
+    code, out, _ = _run(capsys, *args, "--executor", "processes:2")
+    parallel = json.loads(out)
+    assert code == 0 and parallel["executor"] == "processes:2"
+    assert parallel["peak_field_kV_per_mm"] == serial["peak_field_kV_per_mm"]
