@@ -3,7 +3,9 @@
 A matplotlib :class:`~matplotlib.figure.Figure` (no pyplot), drawn into whatever
 canvas holds it: the sweep dialog's ``FigureCanvasQTAgg``.  Steps that failed are gaps
 in the curve; the target (fraction x limit) is a dashed line; a goal-seek answer is a
-marked point with its value.  Units: the parameter's own (mm, V or relative), kV/mm.
+marked point with its value.  When the steps carry a streamer-inception estimate, its
+scale (the factor on every electrode potential at inception) is plotted against a
+second axis on the right.  Units: the parameter's own (mm, V or relative), kV/mm.
 """
 
 from __future__ import annotations
@@ -19,6 +21,7 @@ PEAK_COLOUR = "#1f5f8b"
 LIMIT_COLOUR = "#b3410e"
 TARGET_COLOUR = "#c98a1a"
 GOAL_COLOUR = "#2e7d32"
+INCEPTION_COLOUR = "#6a5a8c"
 
 
 def axis_label(param: str, unit: str) -> str:
@@ -64,7 +67,18 @@ def draw_sweep(fig: Figure, res: SweepResult | None, goal: GoalResult | None = N
     finite = np.concatenate([peak[np.isfinite(peak)], limit[np.isfinite(limit)]])
     if finite.size:
         ax.set_ylim(0.0, 1.1 * float(finite.max()))
-    ax.legend(loc="best", fontsize=8, frameon=False)
+    handles, labels = ax.get_legend_handles_labels()
+    scale = res.inception_scale[order]
+    if np.isfinite(scale).any():
+        right = ax.twinx()
+        (line,) = right.plot(x, scale, "s:", color=INCEPTION_COLOUR, markersize=3.5,
+                             linewidth=1.0)
+        right.set_ylabel("inception voltage scale (x)", color=INCEPTION_COLOUR)
+        right.tick_params(axis="y", colors=INCEPTION_COLOUR)
+        right.set_ylim(0.0, 1.15 * float(np.nanmax(scale)))
+        handles.append(line)
+        labels.append("inception scale (right)")
+    ax.legend(handles, labels, loc="best", fontsize=8, frameon=False)
     fig.tight_layout()
 
 
