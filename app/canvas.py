@@ -5,6 +5,7 @@ Layers, by z value, for views built on top of the editor:
 * ``underlay`` (z = -10): below the parts, for colour maps of potential or field;
 * parts (0 <= z < 1), in layout order, drawn by :class:`app.items.PartItem`;
 * ``overlay`` (z = 10): above the parts, for equipotentials, field lines, markers;
+* part names (z = 15), so no part or line hides them;
 * the tool preview (z = 20).
 
 Mouse and key events go to the current tool as scene points in mm.  The wheel zooms
@@ -38,6 +39,7 @@ from .tools import TOOL_CLASSES, Tool, ToolContext
 
 PICK_PX = 7.0
 MAX_DECLUTTER = 150
+LABEL_Z = 15.0
 ZOOM_STEP = 1.15
 SCENE_HALF_MM = 1.0e6
 KEY_NAMES = {Qt.Key.Key_Return: "Return", Qt.Key.Key_Enter: "Enter",
@@ -128,6 +130,7 @@ class Canvas(QGraphicsView):
     def _rebuild(self) -> None:
         self.tool.cancel()  # a half-drawn outline belongs to the layout that was replaced
         for item in self.items_by_id.values():
+            self.scene_.removeItem(item.label)
             self.scene_.removeItem(item)
         self.items_by_id.clear()
         for pid in self.doc.ids():
@@ -150,6 +153,8 @@ class Canvas(QGraphicsView):
         item = PartItem(pid, self.px_per_mm())
         self.items_by_id[pid] = item
         self.scene_.addItem(item)
+        item.label.setZValue(LABEL_Z)  # names above every part and overlay line
+        self.scene_.addItem(item.label)
         return item
 
     def _declutter_labels(self) -> None:
@@ -179,6 +184,7 @@ class Canvas(QGraphicsView):
     def _on_part_removed(self, pid: int) -> None:
         item = self.items_by_id.pop(pid, None)
         if item is not None:
+            self.scene_.removeItem(item.label)
             self.scene_.removeItem(item)
         self._restyle_all()
 

@@ -56,9 +56,10 @@ def _add_ring(path: QPainterPath, pts: Sequence[Sequence[float]], closed: bool) 
 class PartLabelItem(QGraphicsItem):
     """A part's name and value, upright and of constant screen size, with a soft halo."""
 
-    def __init__(self, parent: QGraphicsItem) -> None:
+    def __init__(self, parent: QGraphicsItem | None) -> None:
         super().__init__(parent)
         self.setFlag(QGraphicsItem.GraphicsItemFlag.ItemIgnoresTransformations)
+        self.setAcceptedMouseButtons(Qt.MouseButton.NoButton)
         self.lines: list[str] = []
         self.font = QFont()
         self.font.setPointSizeF(8.5)
@@ -98,7 +99,7 @@ class PartItem(QGraphicsPathItem):
         self.highlighted = False
         self.problem = False
         self.hover = False
-        self.label = PartLabelItem(self)
+        self.label = PartLabelItem(None)  # a scene item of its own, on the names layer
         self._inside = QPointF()
         self._px_per_mm = px_per_mm
         # parts that do not change during a drag are blitted, not re-rasterised
