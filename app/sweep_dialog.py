@@ -23,7 +23,7 @@ import numpy as np
 from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg
 from matplotlib.figure import Figure
 from PySide6.QtCore import Qt, QThreadPool
-from PySide6.QtGui import QCloseEvent, QUndoStack
+from PySide6.QtGui import QCloseEvent, QShowEvent, QUndoStack
 from PySide6.QtWidgets import (
     QComboBox,
     QDialog,
@@ -246,7 +246,14 @@ class SweepDialog(QDialog):
             return SerialExecutor()
         if self._processes is None:
             self._processes = ProcessExecutor()
+            self._processes.start()
         return self._processes
+
+    def showEvent(self, event: QShowEvent) -> None:
+        """Start the worker processes while the user sets the range (first sweep warm)."""
+        super().showEvent(event)
+        if self.runner.currentIndex() == 1:
+            self._executor()
 
     def run_sweep(self) -> None:
         """Start a sweep over the chosen range (off the GUI thread)."""

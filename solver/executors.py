@@ -114,6 +114,15 @@ class ProcessExecutor:
                 initializer=_worker_start)
         return self._pool
 
+    def start(self) -> None:
+        """Start the workers now, without waiting (they import the solver meanwhile).
+
+        A dialog calls this when it opens, so the first sweep finds them ready.
+        """
+        pool = self._ensure_pool()
+        for _ in range(self.workers):
+            pool.submit(os.getpid)
+
     def run(self, fn: Callable[[T], R], items: Sequence[T],
             cancelled: Callable[[], bool] | None = None) -> Iterator[tuple[int, R]]:
         from concurrent.futures import FIRST_COMPLETED, wait

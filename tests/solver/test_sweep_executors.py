@@ -20,6 +20,7 @@ def test_worker_processes_give_the_serial_numbers() -> None:
     layout, radii = _coax("draft"), [2.0, 3.0, 4.0, 5.0, 6.0]
     serial = sweep(layout, "inner", "radius", radii, inception=False)
     pool = ProcessExecutor(2)
+    pool.start()  # workers started ahead, as the sweep dialog does
     try:
         parallel = sweep(layout, "inner", "radius", radii, executor=pool, inception=False)
     finally:
