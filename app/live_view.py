@@ -170,7 +170,7 @@ class LiveView(QObject):
         name = self.window.doc.part(ids[0]).name
         traces = [t for t in sol.surfaces if t.part == name and len(t.s_mm) > 1]
         if traces:
-            panel.show_surface(name, traces)
+            panel.show_surface(name, traces, self._axis_names())
         else:
             panel.show_message(f"{name}: no surface field in the newest result (it was "
                                "solved before this part existed, or under another name).")

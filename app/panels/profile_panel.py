@@ -13,11 +13,21 @@ import numpy as np
 from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg
 from matplotlib.figure import Figure
 from PySide6.QtCore import Qt, Signal
-from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QVBoxLayout, QWidget
+from PySide6.QtWidgets import (
+    QComboBox,
+    QFileDialog,
+    QHBoxLayout,
+    QLabel,
+    QMessageBox,
+    QPushButton,
+    QVBoxLayout,
+    QWidget,
+)
 
 from solver.solution import SurfaceTrace
 
 from ..probes import LineProfile
+from ..profile_export import FILTERS, ProfileExportError, line_rows, save_profile, surface_rows
 
 MODES = (("line", "Along the line probe"), ("surface", "Surface field of the selected part"))
 FIELD_COLOUR = "#9c3410"
@@ -59,14 +69,37 @@ class ProfilePanel(QWidget):
         self.ax = self.figure.add_subplot()
         self.ax_v = self.ax.twinx()
         self.series: dict[str, tuple[np.ndarray, np.ndarray]] = {}
+        self.title = ""
+        """What the plot shows, in words (the title of a saved plot)."""
+        self.rows: list[list[object]] | None = None
+        """Header and rows of the profile shown, for saving as CSV (None: nothing shown)."""
+        self.save_button = QPushButton("Save\u2026")
+        self.save_button.setToolTip("Save the profile's numbers (CSV) or its plot (PNG, "
+                                    "SVG, PDF)")
+        self.save_button.clicked.connect(lambda: self.save())
         top = QHBoxLayout()
         top.addWidget(QLabel("Plot:"))
         top.addWidget(self.mode_box, 1)
+        top.addWidget(self.save_button)
         lay = QVBoxLayout(self)
         lay.addLayout(top)
         lay.addWidget(self.info)
         lay.addWidget(self.plot, 1)
         self.show_message("No results yet.")
+
+    def save(self, path: str | None = None) -> bool:
+        """Save the profile (asking where when ``path`` is None); True when written."""
+        if path is None:
+            path, _ = QFileDialog.getSaveFileName(self, "Save profile", "profile.csv",
+                                                  FILTERS)
+            if not path:
+                return False
+        try:
+            save_profile(self, path)
+        except ProfileExportError as exc:
+            QMessageBox.warning(self, "Save profile", str(exc))
+            return False
+        return True
 
     def mode(self) -> str:
         return str(self.mode_box.currentData())
@@ -108,6 +141,9 @@ class ProfilePanel(QWidget):
         ax.set_xlim(s[0], s[-1])
         (a0, a1), (b0, b1) = prof.segment
         k = int(np.nanargmax(e)) if np.isfinite(e).any() else 0
+        self.rows = line_rows(prof, names)
+        self.title = (f"Potential and |E| along the probe from A ({a0:.4g}, {a1:.4g}) mm "
+                      f"to B ({b0:.4g}, {b1:.4g}) mm ({names[0]}, {names[1]})")
         self.info.setText(
             f"A ({a0:.2f}, {a1:.2f}) mm \u2192 B ({b0:.2f}, {b1:.2f}) mm, {s[-1]:.2f} mm long "
             f"({names[0]}, {names[1]}).  Largest |E| {e[k]:.3g} kV/mm at {s[k]:.2f} mm from A; "
@@ -116,9 +152,12 @@ class ProfilePanel(QWidget):
             "surface field).")
         self._style()
 
-    def show_surface(self, part: str, traces: list[SurfaceTrace]) -> None:
+    def show_surface(self, part: str, traces: list[SurfaceTrace],
+                     names: tuple[str, str] = ("x", "y")) -> None:
         """|E| next to the outline (kV/mm) against arc length (mm), and the limit."""
         self._reset()
+        self.rows = surface_rows(part, traces, names)
+        self.title = f"Surface field of {part} against arc length along its outline"
         ax = self.ax
         best = max(traces, key=lambda t: float(np.max(t.E_kV_per_mm)))
         for tr in traces:
@@ -155,6 +194,7 @@ class ProfilePanel(QWidget):
         """Remove the plotted artists (cheaper than ``Axes.clear``, which rebuilds the
         axis and tick objects); labels and limits are set again by the caller."""
         self.series = {}
+        self.rows = None
         for ax in (self.ax, self.ax_v):
             for art in [*ax.lines, *ax.patches, *ax.texts]:
                 art.remove()

@@ -245,3 +245,47 @@ def test_the_probe_is_drawn_with_the_real_mouse(qtbot, tmp_path) -> None:
     k = int(np.nanargmax(e))
     assert abs(s[k] - s[-1] / 2) < 0.1 * s[-1]
     assert w.doc.to_layout() == rod_over_plate()  # probing edits nothing
+
+
+def test_the_profile_is_saved_as_csv_and_as_a_plot(qtbot, tmp_path) -> None:
+    import csv
+
+    w, live = live_window(qtbot, tmp_path, coax("draft"))
+    w.selection.set([w.doc.id_of("Inner")])
+    qtbot.waitUntil(lambda: "E" in live.profile.series, timeout=WAIT_MS)
+    out = tmp_path / "inner.csv"
+    assert live.profile.save(str(out))
+    rows = list(csv.reader(out.open(encoding="utf-8")))
+    assert rows[0] == ["part", "ring", "arc_length_mm", "x_mm", "y_mm", "E_kV_per_mm",
+                       "limit_kV_per_mm"]
+    e = np.array([float(r[5]) for r in rows[1:]])
+    np.testing.assert_allclose(e, live.profile.series["E"][1], rtol=1e-5)
+    png = tmp_path / "inner.png"
+    assert live.profile.save(str(png))
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    assert not live.profile.figure.texts  # the caution went on the saved file only
+    drag_probe(live, (6.0, 0.0), (19.0, 0.0))
+    qtbot.waitUntil(lambda: live.profile.mode() == "line" and "V" in live.profile.series,
+                    timeout=WAIT_MS)
+    assert live.profile.save(str(out))
+    rows = list(csv.reader(out.open(encoding="utf-8")))
+    assert rows[0] == ["distance_mm", "x_mm", "y_mm", "V_kV", "E_kV_per_mm", "at_conductor"]
+    # REFERENCES.md 1.1: V(r) = U ln(b/r) / ln(b/a) between the conductors
+    r = np.array([float(row[1]) for row in rows[1:]])
+    v = np.array([float(row[3]) for row in rows[1:]])
+    np.testing.assert_allclose(v, U_V / 1000 * np.log(B_MM / r) / math.log(B_MM / A_MM),
+                               atol=0.02 * U_V / 1000)
+
+
+def test_saving_refuses_an_unknown_type_and_an_empty_profile(qapp, tmp_path) -> None:
+    # common practice, no source: a refused save names the problem and writes nothing
+    from app.panels.profile_panel import ProfilePanel
+    from app.profile_export import ProfileExportError, save_profile
+
+    panel = ProfilePanel()
+    with pytest.raises(ProfileExportError, match="no profile"):
+        save_profile(panel, tmp_path / "x.csv")
+    panel.rows = [["a"], [1]]
+    with pytest.raises(ProfileExportError, match=r"\.csv, \.png"):
+        save_profile(panel, tmp_path / "x.txt")
+    assert not list(tmp_path.iterdir())
