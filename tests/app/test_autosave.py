@@ -215,6 +215,20 @@ def test_a_drawing_that_breaks_a_rule_is_restored_for_repair(qtbot, tmp_path, da
 
 # ---------------------------------------------------------------------- a real crash
 
+def processes_with_env(key: str, value: str) -> list[int]:
+    """Ids of the processes (Linux /proc) whose environment has ``key=value``."""
+    want = f"{key}={value}".encode()
+    found = []
+    for d in Path("/proc").iterdir() if Path("/proc").is_dir() else []:
+        if d.name.isdigit() and int(d.name) != os.getpid():
+            try:
+                if want in (d / "environ").read_bytes().split(b"\0"):
+                    found.append(int(d.name))
+            except OSError:
+                pass
+    return found
+
+
 CHILD = textwrap.dedent("""
     import sys
     from PySide6.QtCore import QTimer
@@ -240,7 +254,8 @@ def test_work_survives_a_killed_process_and_is_offered_at_the_next_start(
     layout = every_shape_layout()
     source = tmp_path / "bench.layout.json"
     source.write_text(dumps_layout(layout))
-    env = dict(os.environ, QT_QPA_PLATFORM="offscreen", PYTHONPATH=str(ROOT))
+    env = dict(os.environ, QT_QPA_PLATFORM="offscreen", PYTHONPATH=str(ROOT),
+               **{au.DATA_DIR_ENV: str(data.parent)})
     child = subprocess.Popen([sys.executable, "-c", CHILD, str(source)], cwd=ROOT, env=env,
                              stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
     try:
@@ -257,6 +272,12 @@ def test_work_survives_a_killed_process_and_is_offered_at_the_next_start(
         child.wait(10)
     assert child.returncode == -signal.SIGKILL
     assert "edited" in child.stdout.read()
+    # nothing the killed program started (its solver process) may live on after it
+    deadline = time.monotonic() + 10
+    while processes_with_env(au.DATA_DIR_ENV, env[au.DATA_DIR_ENV]) and \
+            time.monotonic() < deadline:
+        time.sleep(0.2)
+    assert processes_with_env(au.DATA_DIR_ENV, env[au.DATA_DIR_ENV]) == []
 
     w, a = watched(qtbot, tmp_path)  # the next start, in this process
     questions[1].append(SB.Yes)
