@@ -30,7 +30,6 @@ import multiprocessing
 import os
 import threading
 import time
-import traceback
 from collections.abc import Callable
 from concurrent.futures import ProcessPoolExecutor
 from concurrent.futures.process import BrokenProcessPool
@@ -330,7 +329,7 @@ class _Job(QRunnable):
         except LayoutError as exc:
             self.relay.failed.emit(self.revision, str(exc))
         except Exception as exc:  # noqa: BLE001 - reported to the user, never swallowed
-            traceback.print_exc()
+            log.exception("solve of revision %d failed", self.revision)  # to the log file
             self.relay.failed.emit(self.revision, f"{type(exc).__name__}: {exc}")
         else:
             self.relay.done.emit(self.revision, res)

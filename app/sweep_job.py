@@ -7,6 +7,7 @@ GUI thread, so the connections are queued and no widget is touched off that thre
 
 from __future__ import annotations
 
+import logging
 import threading
 from collections.abc import Callable
 from typing import Any
@@ -34,5 +35,6 @@ class Job(QRunnable):
             out: Any = self.work(lambda d, n: self.signals.progress.emit(d, n),
                                  self.cancel.is_set)
         except Exception as exc:  # noqa: BLE001 - shown to the user, never swallowed
+            logging.getLogger(__name__).exception("sweep failed")  # details to the log file
             out = exc
         self.signals.finished.emit(out)

@@ -163,3 +163,20 @@ def test_the_command_line_writes_to_the_log(log_folder, tmp_path, capsys) -> Non
     assert "missing.layout.json" in capsys.readouterr().err
     text = read_log(log_folder)
     assert "Stresslens started" in text and "stresslens solve: exit status 2" in text
+
+
+def test_a_failed_background_solve_is_said_and_its_traceback_logged(qtbot, log_folder) -> None:  # noqa: ANN001
+    from app.solve_runner import _Job, _Relay
+
+    ls.install_logging()
+    relay = _Relay()
+    said: list[tuple[int, str]] = []
+    relay.failed.connect(lambda rev, msg: said.append((rev, msg)))
+
+    def broken_solve():  # noqa: ANN202
+        return {}["a key that is not there"]
+
+    _Job(relay, 7, broken_solve).run()
+    assert said == [(7, "KeyError: 'a key that is not there'")]
+    text = read_log(log_folder)
+    assert "solve of revision 7 failed" in text and "broken_solve" in text
