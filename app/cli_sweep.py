@@ -104,6 +104,8 @@ def run(args: argparse.Namespace) -> int:
                     inception=not args.no_inception, progress=_progress("step"))
         goal = None
         if args.goal is not None:
+            print(f"stresslens sweep: seeking {args.goal:g} x the limit between the bracketing "
+                  f"steps", file=sys.stderr)
             goal = goal_seek(layout, args.part, args.param, args.start, args.stop, args.goal,
                              coarse=res)
     except RuntimeError as exc:  # a broken process pool, a lost cluster
