@@ -59,7 +59,20 @@ def build_actions(w: MainWindow) -> dict[str, QAction]:
     acts["keys"] = _action(w, "&Keys and mouse\u2026", lambda: show_keys(w), "keys", "F1")
     _menus(w, acts)
     _toolbars(w, acts)
+    _lock_during_drags(w, acts)
     return acts
+
+
+EDITS = ("new", "open", "cut", "paste", "duplicate", "delete", "mirror_v", "mirror_h",
+         "corner", "select_all")
+
+
+def _lock_during_drags(w: MainWindow, acts: dict[str, QAction]) -> None:
+    """Edits that add, remove or replace parts wait until a drag in progress ends."""
+    def on_drag(dragging: bool) -> None:
+        for name in EDITS:
+            acts[name].setEnabled(not dragging)
+    w.doc.interaction_changed.connect(on_drag)
 
 
 def _file_actions(w: MainWindow) -> dict[str, QAction]:

@@ -221,3 +221,18 @@ def test_undo_waits_for_a_drag_to_end(win) -> None:  # noqa: ANN001
     win.actions_["undo"].trigger()
     tool.release((40.0, 5.0))
     assert win.actions_["undo"].isEnabled() and win.stack.count() == 2
+
+
+def test_part_edits_wait_for_a_drag_to_end(win) -> None:  # noqa: ANN001
+    # common practice, no source: a part being dragged cannot be deleted under the mouse
+    ball = win.doc.id_of("Ball")
+    win.selection.set([ball])
+    tool = win.canvas.tools["select"]
+    tool.press((30.0, 0.0))
+    tool.move((40.0, 5.0), True)
+    win.actions_["delete"].trigger()
+    win.actions_["paste"].trigger()
+    assert ball in win.doc and len(win.doc) == 5
+    tool.release((40.0, 5.0))
+    assert win.actions_["delete"].isEnabled()
+    assert win.doc.part(ball).shape.center == (40.0, 5.0)
