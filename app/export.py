@@ -27,7 +27,7 @@ from __future__ import annotations
 import csv
 import math
 from pathlib import Path
-from typing import TextIO
+from typing import IO
 
 import numpy as np
 import shapely
@@ -71,7 +71,7 @@ def _g(v: float) -> str:
     return f"{v:.7g}"
 
 
-def write_surface_csv_to(solution: Solution, out: TextIO) -> int:
+def write_surface_csv_to(solution: Solution, out: IO[str]) -> int:
     """Write the surface-field table to an open text stream; return the number of rows."""
     w = csv.writer(out, lineterminator="\n")
     w.writerow(surface_header(solution))
@@ -150,7 +150,7 @@ def grid_samples(solution: Solution, pts: np.ndarray,
     return region, phi, e
 
 
-def write_grid_csv_to(solution: Solution, out: TextIO, step_mm: float | None) -> int:
+def write_grid_csv_to(solution: Solution, out: IO[str], step_mm: float | None) -> int:
     """Write the grid table (rows by y, then x) to an open text stream; return the rows."""
     xs, ys = grid_axes(solution, step_mm)
     names = ["medium"] + [p.name for p in solution.layout.parts]

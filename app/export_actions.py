@@ -58,8 +58,10 @@ class ExportActions(QObject):
             return
         acts = [self.report_action, self.surface_action, self.grid_action]
         separators = [a for a in menu.actions() if a.isSeparator()]
-        before = separators[-1] if separators else None
-        menu.insertActions(before, acts)
+        if separators:
+            menu.insertActions(separators[-1], acts)
+        else:
+            menu.addActions(acts)
         menu.insertSeparator(acts[0])
 
     # ------------------------------------------------------------------ what to export

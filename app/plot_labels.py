@@ -15,9 +15,10 @@ import math
 from collections.abc import Sequence
 
 from matplotlib.axes import Axes
+from matplotlib.backend_bases import RendererBase
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.text import Annotation, Text
-from matplotlib.transforms import Bbox
+from matplotlib.transforms import Bbox, BboxBase
 
 MOVABLE_CALLOUT = "stresslens-callout-"
 MOVABLE_CAPTION = "stresslens-caption-"
@@ -28,7 +29,7 @@ TURNS_DEG = (0, 30, -30, 60, -60, 90, -90, 125, -125, 180)
 PAD_PX = 3.0
 
 
-def _box(text: Text, renderer: object) -> Bbox:
+def _box(text: Text, renderer: RendererBase) -> Bbox:
     """The text's own box (no leader line), padded a little.
 
     An annotation's text transform follows its offset only after ``update_positions``;
@@ -40,13 +41,13 @@ def _box(text: Text, renderer: object) -> Bbox:
     return Bbox.from_extents(bb.x0 - PAD_PX, bb.y0 - PAD_PX, bb.x1 + PAD_PX, bb.y1 + PAD_PX)
 
 
-def _overlap(a: Bbox, b: Bbox) -> float:
+def _overlap(a: BboxBase, b: BboxBase) -> float:
     w = min(a.x1, b.x1) - max(a.x0, b.x0)
     h = min(a.y1, b.y1) - max(a.y0, b.y0)
     return max(w, 0.0) * max(h, 0.0)
 
 
-def _outside(box: Bbox, frame: Bbox) -> float:
+def _outside(box: BboxBase, frame: BboxBase) -> float:
     """Area of ``box`` lying outside ``frame``."""
     return box.width * box.height - _overlap(box, frame)
 
@@ -56,7 +57,8 @@ def place_labels(ax: Axes, fixed: Sequence[Text], movable: Sequence[Annotation])
 
     The preferred direction of an annotation is the one it was created with.
     """
-    fig = ax.figure
+    fig = ax.get_figure(root=True)
+    assert fig is not None, "the axes belong to a figure"
     canvas = fig.canvas if isinstance(fig.canvas, FigureCanvasAgg) else FigureCanvasAgg(fig)
     renderer = canvas.get_renderer()
     frame = ax.get_window_extent(renderer)

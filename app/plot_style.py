@@ -11,6 +11,7 @@ from dataclasses import dataclass
 
 import numpy as np
 from matplotlib.colors import ListedColormap
+from matplotlib.typing import LineStyleType
 
 from solver.layout import Part
 from solver.solution import Solution
@@ -27,7 +28,7 @@ class PartStyle:
     """
 
     hatch: str
-    linestyle: str | tuple[float, tuple[float, ...]]
+    linestyle: LineStyleType
 
 
 PART_STYLES: dict[str, PartStyle] = {
@@ -67,7 +68,8 @@ def _blended(name: str, opacity: float, n: int = 256) -> ListedColormap:
     from matplotlib import colormaps
 
     rgba = colormaps[name](np.linspace(0.0, 1.0, n))
-    bg = np.array(palette.CANVAS.getRgbF()[:3])
+    c = palette.CANVAS
+    bg = np.array([c.redF(), c.greenF(), c.blueF()])
     rgba[:, :3] = opacity * rgba[:, :3] + (1.0 - opacity) * bg
     return ListedColormap(rgba, name=f"stresslens_{name}_print")
 

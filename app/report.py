@@ -17,6 +17,7 @@ from __future__ import annotations
 import textwrap
 from datetime import datetime, timezone
 from pathlib import Path
+from typing import IO
 
 from matplotlib.figure import Figure
 from matplotlib.lines import Line2D
@@ -228,7 +229,7 @@ def write_report(solution: Solution, path: str | Path, overlays: ReportOverlays 
     return target
 
 
-def _save(f: object, ext: str, fig: Figure, solution: Solution, source_name: str,
+def _save(f: IO[bytes], ext: str, fig: Figure, solution: Solution, source_name: str,
           when: datetime) -> None:
     meta = {"Title": solution.layout.title or source_name, "Creator": "Stresslens"}
     if ext == ".png":

@@ -63,6 +63,6 @@ def draw_surface_profiles(fig: Figure, solution: Solution,
     ax.grid(True, color="#dddddd", lw=0.5)
     ax.legend(fontsize=7, loc="upper left", bbox_to_anchor=(1.01, 1.0), frameon=False)
     ax.tick_params(labelsize=7.5)
-    ax.xaxis.label.set_size(8.5)
-    ax.yaxis.label.set_size(8.5)
+    ax.xaxis.label.set_fontsize(8.5)
+    ax.yaxis.label.set_fontsize(8.5)
     return len(traces)

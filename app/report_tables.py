@@ -16,6 +16,7 @@ from datetime import datetime
 
 import numpy as np
 from matplotlib.figure import Figure
+from matplotlib.lines import Line2D
 
 from solver.geometry import part_outline
 from solver.layout import FixedLimit, Layout
@@ -242,9 +243,7 @@ class _Cursor:
                 self.fig.add_artist(_rule(self.fig, self.y + self._dy(2), self.left, right))
 
 
-def _rule(fig: Figure, y: float, x0: float, x1: float) -> object:
-    from matplotlib.lines import Line2D
-
+def _rule(fig: Figure, y: float, x0: float, x1: float) -> Line2D:
     return Line2D([x0, x1], [y, y], transform=fig.transFigure, color="#555555", lw=0.6)
 
 
