@@ -57,9 +57,9 @@ def place_labels(ax: Axes, fixed: Sequence[Text], movable: Sequence[Annotation])
 
     The preferred direction of an annotation is the one it was created with.
     """
-    fig = ax.get_figure(root=True)
-    assert fig is not None, "the axes belong to a figure"
-    canvas = fig.canvas if isinstance(fig.canvas, FigureCanvasAgg) else FigureCanvasAgg(fig)
+    fig = ax.figure  # a report's axes sit on a Figure, never a SubFigure
+    canvas = (fig.canvas if isinstance(fig.canvas, FigureCanvasAgg)
+              else FigureCanvasAgg(fig))  # type: ignore[arg-type]
     renderer = canvas.get_renderer()
     frame = ax.get_window_extent(renderer)
     page = fig.bbox
