@@ -227,6 +227,7 @@ def test_part_edits_wait_for_a_drag_to_end(win) -> None:  # noqa: ANN001
     # common practice, no source: a part being dragged cannot be deleted under the mouse
     ball = win.doc.id_of("Ball")
     win.selection.set([ball])
+    win.snapper.enabled = False
     tool = win.canvas.tools["select"]
     tool.press((30.0, 0.0))
     tool.move((40.0, 5.0), True)
