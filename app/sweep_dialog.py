@@ -77,6 +77,7 @@ class SweepDialog(QDialog):
         self._running: str | None = None
         self._job_layout: Any = None
         self._result_layout: Any = None
+        """(layout, resolution) the shown sweep was made with (a goal seek may re-use it)."""
         self._build()
         self._fill_parts()
         self.doc.changed.connect(self._on_doc_changed)
@@ -262,7 +263,7 @@ class SweepDialog(QDialog):
             return
         layout, part, param, res, ex = s
         values = np.linspace(self.start.value(), self.stop.value(), self.steps.value()).tolist()
-        self._job_layout = layout
+        self._job_layout = (layout, res)
         self._start("sweep", lambda progress, cancelled: sweep(
             layout, part, param, values, ex, res, progress=progress, cancelled=cancelled))
 
@@ -276,10 +277,11 @@ class SweepDialog(QDialog):
         r = self.result
         coarse = r if (r is not None and not r.cancelled and (r.part, r.param) == (part, param)
                        and min(r.values) == min(lo, hi) and max(r.values) == max(lo, hi)
-                       and self._result_layout == layout) else None
-        self._job_layout = layout
+                       and self._result_layout == (layout, res)) else None
+        self._job_layout = (layout, res)
+        n = self.steps.value()  # read here: the job runs off the GUI thread
         self._start("goal", lambda progress, cancelled: goal_seek(
-            layout, part, param, lo, hi, f, ex, res, coarse_steps=self.steps.value(),
+            layout, part, param, lo, hi, f, ex, res, coarse_steps=n,
             progress=progress, cancelled=cancelled, coarse=coarse))
 
     def _start(self, kind: str, work: Callable[..., Any]) -> None:

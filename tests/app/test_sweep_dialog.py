@@ -149,3 +149,17 @@ def test_part_list_follows_the_document(qtbot, dialog: SweepDialog) -> None:
     assert [dialog.part_box.itemText(i) for i in range(dialog.part_box.count())] == \
         ["Core", "Tube"]
     assert (dialog.part_box.currentText(), dialog.param_box.currentText()) == ("Core", "radius")
+
+
+def test_goal_seek_reuses_the_sweep_on_show(qtbot, dialog: SweepDialog) -> None:
+    dialog.run_sweep()
+    _wait(qtbot, dialog)
+    shown = dialog.result
+    dialog.seek_goal()
+    _wait(qtbot, dialog)
+    assert dialog.goal.coarse is shown  # the same range and layout: no step solved again
+    dialog.resolution.setCurrentText("normal")  # another grid: the sweep no longer fits
+    dialog.stop.setValue(8.0)
+    dialog.seek_goal()
+    _wait(qtbot, dialog)
+    assert dialog.goal.coarse is not shown and max(dialog.goal.coarse.values) == 8.0
