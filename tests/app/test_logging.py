@@ -24,6 +24,7 @@ def log_folder(tmp_path, monkeypatch):  # noqa: ANN001, ANN201
     folder = tmp_path / "logs"
     monkeypatch.setenv(ls.LOG_DIR_ENV, str(folder))
     ls.remove_logging()
+    logging.captureWarnings(False)  # an earlier test's capture would hide this one's
     old_hook, old_thread_hook = sys.excepthook, threading.excepthook
     yield folder
     ls.remove_logging()
