@@ -26,24 +26,21 @@ from __future__ import annotations
 
 import logging
 import math
-import multiprocessing
-import os
-import threading
 import time
 from collections.abc import Callable
-from concurrent.futures import ProcessPoolExecutor
-from concurrent.futures.process import BrokenProcessPool
 from dataclasses import dataclass, field, replace
 
 import numpy as np
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, Signal
 
 import solver
-from solver.executors import one_blas_thread
 from solver.layout import Layout, LayoutError, Resolution
 from solver.solution import Solution
 
 from .colour_maps import map_rgba
+from .solver_process import in_solver_process, warm_up
+
+log = logging.getLogger(__name__)
 
 RASTER_PX = 360
 """Longest side, in pixels, of the regular raster the colour map is drawn from."""
@@ -231,82 +228,6 @@ def field_scale_top(sol: Solution, emag: np.ndarray) -> float:
         return float(min(limits))
     top = float(np.nanmax(emag)) if np.isfinite(emag).any() else 1.0
     return top if top > 0 else 1.0
-
-
-log = logging.getLogger(__name__)
-
-_SOLVER_PROCESS: ProcessPoolExecutor | None = None
-_IN_THREAD = False
-"""Set when no solver process can be started: solves then run in the worker thread."""
-_PROCESS_LOCK = threading.Lock()
-_FAILURES = [0]
-
-
-def solver_process() -> ProcessPoolExecutor:
-    """The shared solver process (started on first use, with one BLAS thread)."""
-    global _SOLVER_PROCESS
-    with _PROCESS_LOCK:
-        if _SOLVER_PROCESS is None:
-            _SOLVER_PROCESS = ProcessPoolExecutor(
-                max_workers=1, mp_context=multiprocessing.get_context("spawn"),
-                initializer=_start_solver_process, initargs=(os.getpid(),))
-        return _SOLVER_PROCESS
-
-
-def in_solver_process(fn: Callable[..., LiveResult], *args: object) -> LiveResult:
-    """``fn(*args)`` run in the solver process; blocks the calling (worker) thread only.
-
-    When the process cannot start (a script without the ``if __name__ == "__main__"``
-    guard that ``spawn`` needs) or dies, it is dropped and this solve, like the later
-    ones after a second failure, runs here in the worker thread instead: slower to
-    give way to the GUI, but the user gets the result.
-    """
-    global _SOLVER_PROCESS, _IN_THREAD
-    if not _IN_THREAD:
-        try:
-            return solver_process().submit(fn, *args).result()
-        except (BrokenProcessPool, RuntimeError) as exc:
-            with _PROCESS_LOCK:
-                _FAILURES[0] += 1
-                _IN_THREAD = _FAILURES[0] >= 2
-                _SOLVER_PROCESS = None
-            log.warning("solver process unavailable (%s); solving in a thread", _first_line(exc))
-    return fn(*args)
-
-
-def warm_up() -> None:
-    """Start the solver process and import the solver there, ahead of the first solve."""
-    global _IN_THREAD
-    if _IN_THREAD:
-        return
-    try:
-        solver_process().submit(_import_solver)
-    except RuntimeError as exc:  # spawn refused (no __main__ guard in the caller)
-        _IN_THREAD = True
-        log.warning("no solver process (%s); solving in a thread", _first_line(exc))
-
-
-def _start_solver_process(parent_pid: int) -> None:
-    """Set-up of the solver process: one BLAS thread, and a watch that ends it as soon
-    as the program that started it is gone (killed, crashed), so no orphan is left
-    holding its terminal or pipes."""
-    one_blas_thread()
-
-    def watch() -> None:
-        while os.getppid() == parent_pid:
-            time.sleep(0.5)
-        os._exit(0)
-
-    threading.Thread(target=watch, name="parent-watch", daemon=True).start()
-
-
-def _first_line(exc: BaseException) -> str:
-    text = str(exc).strip()
-    return text.splitlines()[0] if text else type(exc).__name__
-
-
-def _import_solver() -> None:
-    import solver  # noqa: F401 - the import is the work
 
 
 class _Relay(QObject):

@@ -8,8 +8,9 @@ from concurrent.futures.process import BrokenProcessPool
 
 import pytest
 
-from app import solve_runner
-from app.solve_runner import EquipotentialStep, equipotential_levels, in_solver_process
+from app import solver_process
+from app.solve_runner import EquipotentialStep, equipotential_levels
+from app.solver_process import in_solver_process
 
 
 def _pid() -> int:
@@ -27,13 +28,13 @@ class _Broken:
 
 
 def test_a_broken_solver_process_falls_back_to_this_thread(monkeypatch) -> None:  # noqa: ANN001
-    monkeypatch.setattr(solve_runner, "solver_process", lambda: _Broken())
-    monkeypatch.setattr(solve_runner, "_FAILURES", [0])
-    monkeypatch.setattr(solve_runner, "_IN_THREAD", False)
+    monkeypatch.setattr(solver_process, "solver_process", lambda: _Broken())
+    monkeypatch.setattr(solver_process, "_FAILURES", [0])
+    monkeypatch.setattr(solver_process, "_IN_THREAD", False)
     assert in_solver_process(_pid) == os.getpid()
-    assert not solve_runner._IN_THREAD  # one failure: the next solve tries a process again
+    assert not solver_process._IN_THREAD  # one failure: the next solve tries a process again
     assert in_solver_process(_pid) == os.getpid()
-    assert solve_runner._IN_THREAD  # two in a row: stay in the thread
+    assert solver_process._IN_THREAD  # two in a row: stay in the thread
 
 
 def test_step_must_have_a_known_unit() -> None:
@@ -55,3 +56,15 @@ def test_levels_of_a_bare_number_are_percent(monkeypatch) -> None:  # noqa: ANN0
     # kV steps are multiples of the step, whatever the ends
     levels, _ = equipotential_levels(Sol(), EquipotentialStep(3.0, "kV"))
     assert levels == pytest.approx([-3000.0, 0.0, 3000.0])
+
+
+def _fails() -> None:
+    raise RuntimeError("the solve's own error")
+
+
+def test_an_error_of_the_solve_itself_is_not_taken_for_a_broken_process() -> None:
+    # common practice, no source: the solve's exception reaches the caller unchanged
+    before = solver_process._FAILURES[0]
+    with pytest.raises(RuntimeError, match="own error"):
+        in_solver_process(_fails)
+    assert solver_process._FAILURES[0] == before and not solver_process._IN_THREAD
