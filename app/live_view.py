@@ -62,6 +62,7 @@ class LiveView(QObject):
         self._profile_timer = QTimer(self)
         self._profile_timer.setSingleShot(True)
         self._profile_timer.timeout.connect(self.update_profile)
+        self.profile.set_mode("surface")  # until a probe is drawn
         self.status = QLabel("no results yet")
         self.status.setObjectName("solve_state")
         self.probe = QLabel()
@@ -163,14 +164,19 @@ class LiveView(QObject):
                 panel.show_line(line_profile(sol, seg), self._axis_names())
             return
         ids = self.window.selection.ids
-        if not ids:
-            panel.show_message("Select a conductor or dielectric to plot the field along "
-                               "its outline.")
+        if ids:
+            name = self.window.doc.part(ids[0]).name
+        elif sol.parts:  # nothing selected: the part with the strongest surface field
+            name = max(sol.parts, key=_surface_peak).name
+        else:
+            panel.show_message("No parts.")
             return
-        name = self.window.doc.part(ids[0]).name
         traces = [t for t in sol.surfaces if t.part == name and len(t.s_mm) > 1]
         if traces:
             panel.show_surface(name, traces, self._axis_names())
+            if not ids:
+                panel.info.setText(panel.info.text() + "  (The part with the strongest "
+                                   "surface field; select a part to see another.)")
         else:
             panel.show_message(f"{name}: no surface field in the newest result (it was "
                                "solved before this part existed, or under another name).")
@@ -299,6 +305,13 @@ class LiveView(QObject):
         self.settings.setValue(f"overlays/{name}", on)
         self.overlays.place_labels()
         self._update_scale()
+
+
+def _surface_peak(p) -> float:  # noqa: ANN001 - solver.solution.PartResult
+    """The strongest field along a part's outline, kV/mm (gas side for a dielectric)."""
+    if p.kind == "dielectric":
+        return p.surface_field_kV_per_mm or 0.0
+    return p.peak_field_kV_per_mm
 
 
 def attach_live_view(window) -> LiveView:  # noqa: ANN001 - MainWindow
