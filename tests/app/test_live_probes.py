@@ -60,7 +60,7 @@ def drag_probe(live, a: tuple[float, float], b: tuple[float, float]) -> None:  #
 def test_line_probe_plots_what_the_solver_samples(qtbot, tmp_path) -> None:
     w, live = live_window(qtbot, tmp_path, rod_over_plate())
     drag_probe(live, (0.0, 1.0), (0.0, 14.0))
-    qtbot.waitUntil(lambda: "E" in live.profile.series, timeout=WAIT_MS)
+    qtbot.waitUntil(lambda: "V" in live.profile.series, timeout=WAIT_MS)
     assert live.profile.mode() == "line" and live.profile_dock.isVisible()
     assert live.probe_line.isVisible() and live.probe_line.segment == ((0.0, 1.0), (0.0, 14.0))
     s, e = live.profile.series["E"]
@@ -85,6 +85,14 @@ def test_line_probe_plots_what_the_solver_samples(qtbot, tmp_path) -> None:
     assert "(kV/mm)" in live.profile.ax.get_ylabel() and "(kV)" in live.profile.ax_v.get_ylabel()
 
 
+def test_with_nothing_selected_the_strongest_part_is_plotted(qtbot, tmp_path) -> None:
+    w, live = live_window(qtbot, tmp_path, coax("draft"))
+    qtbot.waitUntil(lambda: "E" in live.profile.series, timeout=WAIT_MS)
+    # common practice, no source: in a coax the inner conductor carries the higher field
+    assert live.profile.mode() == "surface" and "Inner" in live.profile.title
+    assert "strongest" in live.profile.info.text()
+
+
 def test_line_profile_marks_the_inside_of_conductors(qtbot, tmp_path) -> None:
     w, live = live_window(qtbot, tmp_path, rod_over_plate())
     prof = line_profile(live.runner.latest.solution, ((0.0, 10.0), (0.0, 20.0)))
@@ -100,7 +108,7 @@ def test_line_profile_marks_the_inside_of_conductors(qtbot, tmp_path) -> None:
 def test_coax_surface_profile_is_flat_at_the_analytic_value(qtbot, tmp_path) -> None:
     w, live = live_window(qtbot, tmp_path, coax())
     w.selection.set([w.doc.id_of("Inner")])
-    qtbot.waitUntil(lambda: "E" in live.profile.series, timeout=WAIT_MS)
+    qtbot.waitUntil(lambda: "Inner" in live.profile.title, timeout=WAIT_MS)
     assert live.profile.mode() == "surface"
     s, e = live.profile.series["E"]
     exact = U_V / 1000.0 / (A_MM * math.log(B_MM / A_MM))  # REFERENCES.md 1.1
@@ -238,7 +246,7 @@ def test_the_probe_is_drawn_with_the_real_mouse(qtbot, tmp_path) -> None:
     px_mm = 1.0 / w.canvas.px_per_mm()  # a mouse lands on whole pixels
     assert abs(ax + 20.0) < 2 * px_mm and abs(bx - 20.0) < 2 * px_mm
     assert abs(ay - 8.0) < 2 * px_mm and abs(by - 8.0) < 2 * px_mm
-    qtbot.waitUntil(lambda: "E" in live.profile.series, timeout=WAIT_MS)
+    qtbot.waitUntil(lambda: "V" in live.profile.series, timeout=WAIT_MS)
     s, e = live.profile.series["E"]
     # common practice, no source: on a line parallel to the plate, under the rod's axis,
     # the field is strongest right below the rod (the middle of the segment)
@@ -252,7 +260,7 @@ def test_the_profile_is_saved_as_csv_and_as_a_plot(qtbot, tmp_path) -> None:
 
     w, live = live_window(qtbot, tmp_path, coax("draft"))
     w.selection.set([w.doc.id_of("Inner")])
-    qtbot.waitUntil(lambda: "E" in live.profile.series, timeout=WAIT_MS)
+    qtbot.waitUntil(lambda: "Inner" in live.profile.title, timeout=WAIT_MS)
     out = tmp_path / "inner.csv"
     assert live.profile.save(str(out))
     rows = list(csv.reader(out.open(encoding="utf-8")))
@@ -265,8 +273,7 @@ def test_the_profile_is_saved_as_csv_and_as_a_plot(qtbot, tmp_path) -> None:
     assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
     assert not live.profile.figure.texts  # the caution went on the saved file only
     drag_probe(live, (6.0, 0.0), (19.0, 0.0))
-    qtbot.waitUntil(lambda: live.profile.mode() == "line" and "V" in live.profile.series,
-                    timeout=WAIT_MS)
+    qtbot.waitUntil(lambda: "V" in live.profile.series, timeout=WAIT_MS)
     assert live.profile.save(str(out))
     rows = list(csv.reader(out.open(encoding="utf-8")))
     assert rows[0] == ["distance_mm", "x_mm", "y_mm", "V_kV", "E_kV_per_mm", "at_conductor"]
