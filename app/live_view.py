@@ -12,7 +12,7 @@ from __future__ import annotations
 import logging
 
 import numpy as np
-from PySide6.QtCore import QObject, QPointF, QSettings, Qt, QTimer
+from PySide6.QtCore import QObject, QPointF, QRectF, QSettings, Qt, QTimer
 from PySide6.QtGui import QAction
 from PySide6.QtWidgets import QLabel, QToolBar
 
@@ -54,6 +54,8 @@ class LiveView(QObject):
         window.resizeDocks([self.dock], [RIGHT_DOCK_PX], Qt.Orientation.Horizontal)
         window.resizeDocks([self.dock, self.profile_dock], [470, 360], Qt.Orientation.Vertical)
         self.scale = ColourScale(canvas.viewport())
+        self.overlays.keep_clear = lambda: ([QRectF(self.scale.geometry())]
+                                            if self.scale.isVisible() else [])
         self.probe_tool = canvas.tools["probe"]
         self.probe_line = ProbeLineItem()
         self.probe_line.setParentItem(canvas.overlay)
@@ -242,6 +244,11 @@ class LiveView(QObject):
         return True
 
     def _update_scale(self) -> None:
+        """Show the colour scales of the maps switched on (and keep labels off them)."""
+        self._set_scales()
+        self.overlays.place_labels()
+
+    def _set_scales(self) -> None:
         res = self.overlays.result
         scales = []
         if res is not None and self.overlays.visible["potential_map"]:
@@ -303,7 +310,6 @@ class LiveView(QObject):
     def _toggle(self, name: str, on: bool) -> None:
         self.overlays.set_visible(name, on)
         self.settings.setValue(f"overlays/{name}", on)
-        self.overlays.place_labels()
         self._update_scale()
 
 

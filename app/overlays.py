@@ -12,6 +12,7 @@ Colour maps: see :mod:`app.colour_maps` (their RGBA arrays are made on the worke
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 
 import numpy as np
 from PySide6.QtCore import QPointF, QRectF, Qt
@@ -96,6 +97,8 @@ class FieldOverlays:
                  view: QGraphicsView | None = None) -> None:
         self.underlay, self.overlay, self.view = underlay, overlay, view
         self.tags: list[TagItem] = []
+        self.keep_clear: Callable[[], list[QRectF]] = lambda: []
+        """More viewport rectangles (px) labels must not cover (e.g. the colour scale)."""
         self.visible = {n: n not in DEFAULT_OFF for n in OVERLAY_NAMES}
         self.groups: dict[str, QGraphicsItemGroup] = {}
         for name in OVERLAY_NAMES:
@@ -170,7 +173,8 @@ class FieldOverlays:
             return
         vt = view.viewportTransform()
         vp = QRectF(view.viewport().rect()).adjusted(34, 24, -8, -34)  # clear of the rulers
-        taken = [r.adjusted(-2, -2, 2, 2) for r in obstacle_rects(view, self.groups["hot_spots"])]
+        taken = [r.adjusted(-2, -2, 2, 2) for r in
+                 [*obstacle_rects(view, self.groups["hot_spots"]), *self.keep_clear()]]
         for tag in self.tags:
             size = tag.boundingRect()
             tag.setVisible(False)

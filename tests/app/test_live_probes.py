@@ -211,6 +211,8 @@ def test_equipotential_labels_cover_no_other_label(qtbot, tmp_path) -> None:
     boxes = [t.deviceTransform(vt).mapRect(t.boundingRect()) for t in tags]
     others = obstacle_rects(canvas, live.overlays.groups["hot_spots"])
     assert others  # part labels and hot-spot markers are there to avoid
+    assert live.scale.isVisible()
+    others.append(QRectF(live.scale.geometry()))  # and the colour scale
     for i, box in enumerate(boxes):
         assert QRectF(canvas.viewport().rect()).contains(box)
         assert not any(box.intersects(o) for o in others)
