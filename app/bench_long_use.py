@@ -146,6 +146,16 @@ class Hand:
         return moves
 
 
+def cpu_pressure_us() -> float | None:
+    """Linux pressure-stall total for the CPU (µs during which some task waited for a
+    core), or None where the kernel does not report it."""
+    try:
+        first = open("/proc/pressure/cpu").readline().split()
+        return float(dict(kv.split("=") for kv in first[1:])["total"])
+    except (OSError, ValueError, KeyError, IndexError):
+        return None
+
+
 def _load() -> float:
     """The 1-minute load average (other work on the machine skews the stall figures)."""
     try:
@@ -197,7 +207,7 @@ def main(argv: list[str] | None = None) -> int:
     hand.drag(app, DRAG_S, time.perf_counter() + DRAG_S)  # warm-up cycle
     settle()
     gc.collect()
-    rss0, load0 = rss_mb(), _load()
+    rss0, load0, psi0 = rss_mb(), _load(), cpu_pressure_us()
     beat.reset()
     shown[0], dropped0, moves, drags = 0, live.runner.dropped, 0, 0
     t_start = time.perf_counter()
@@ -210,12 +220,16 @@ def main(argv: list[str] | None = None) -> int:
         if time.perf_counter() - t_start >= 60 * (len(per_minute) + 1):
             per_minute.append(rss_mb())
     stalls = beat.summary()
+    psi1 = cpu_pressure_us()
+    pressure = ("not reported by this system" if psi0 is None or psi1 is None else
+                f"{100 * (psi1 - psi0) / 1e6 / (time.perf_counter() - t_start):.0f} % of the "
+                f"time some task waited for a core")
     settle()
     gc.collect()
     rss1 = rss_mb()
     minutes = (time.perf_counter() - t_start) / 60
     print(f"machine load (1-min average, {os.cpu_count()} cores): {load0:.1f} at the start, "
-          f"{_load():.1f} at the end")
+          f"{_load():.1f} at the end; CPU pressure over the run: {pressure}")
     print(f"layout: {args.layout}; dragged '{args.part}' {drags} times, {moves} mouse moves "
           f"in {minutes:.1f} min; undo steps {w.stack.count()}")
     print(f"results shown: {shown[0]}; dropped as stale: {live.runner.dropped - dropped0}")
