@@ -297,3 +297,29 @@ def test_finish_stops_watching(qtbot, tmp_path, data) -> None:  # noqa: ANN001
     move_first(w)
     qtbot.wait(200)
     assert w.doc.dirty and not a.path.exists() and a.writes == 0
+
+
+def test_the_program_start_offers_recovery(qtbot, tmp_path, data, questions,  # noqa: ANN001
+                                           monkeypatch) -> None:
+    from PySide6.QtWidgets import QApplication
+
+    from app import cli_gui
+
+    _orphan(data, 999993, title="left by a crash")
+    shown = []
+    real_build = cli_gui.build_window
+
+    def build(path):  # noqa: ANN001, ANN202
+        w = real_build(path)
+        w.files.confirm_discard = lambda: True
+        qtbot.addWidget(w)
+        shown.append(w)
+        return w
+
+    monkeypatch.setattr(cli_gui, "build_window", build)
+    monkeypatch.setattr(QApplication, "exec", lambda *a: 0)  # return at once
+    monkeypatch.setattr(sys, "excepthook", sys.excepthook)  # undone after the test
+    questions[1].append(SB.Yes)
+    assert cli_gui._interactive(None) == 0
+    assert len(questions[0]) == 1 and "an untitled layout" in questions[0][0]
+    assert shown[0].doc.settings.title == "left by a crash" and shown[0].doc.dirty
