@@ -35,15 +35,10 @@ def main(argv: list[str] | None = None) -> int:
 
     import solver
 
-    from .cli_gui import build_window, make_app
+    from .cli_gui import scripted_window
     from .shape_edit import translated
 
-    app = make_app()
-    w = build_window(args.layout)
-    w.autosave.finish()  # scripted edits are not the user's work: no recovery file
-    w.files.confirm_discard = lambda: True
-    w.resize(1400, 900)
-    w.show()
+    app, w = scripted_window(args.layout)
     live, doc = w.live, w.doc
     gaps: list[float] = []
     cpu_gaps: list[float] = []

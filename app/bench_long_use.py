@@ -180,14 +180,9 @@ def main(argv: list[str] | None = None) -> int:
     ap.add_argument("--minutes", type=float, default=10.0)
     args = ap.parse_args(argv)
     os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
-    from .cli_gui import build_window, make_app
+    from .cli_gui import scripted_window
 
-    app = make_app()
-    w = build_window(args.layout)
-    w.autosave.finish()  # scripted edits are not the user's work: no recovery file
-    w.files.confirm_discard = lambda: True
-    w.resize(1400, 900)
-    w.show()
+    app, w = scripted_window(args.layout)
     w.canvas.zoom_to_fit()
     if w.doc.id_of(args.part) is None:
         print(f"bench_long_use: no part named '{args.part}' in {args.layout}")

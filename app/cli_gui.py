@@ -123,6 +123,18 @@ def build_window(layout_path: str | None) -> MainWindow:
     return window
 
 
+def scripted_window(layout_path: str | None, size: tuple[int, int] = (1400, 900)):  # noqa: ANN201
+    """(QApplication, shown window) for a script that edits without a user (a
+    benchmark): no recovery file for its edits, no question about them on closing."""
+    app = make_app()
+    window = build_window(layout_path)
+    window.autosave.finish()
+    window.files.confirm_discard = lambda: True
+    window.resize(*size)
+    window.show()
+    return app, window
+
+
 def _interactive(layout_path: str | None) -> int:
     from .logging_setup import install_excepthook
 
