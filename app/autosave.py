@@ -42,8 +42,9 @@ from PySide6.QtWidgets import QMessageBox
 from solver.layout import Layout, LayoutError, layout_to_json, parse_layout
 
 from .atomic_file import write_atomically
+from .user_dirs import ENV, user_folder
 
-DATA_DIR_ENV = "STRESSLENS_DATA_DIR"
+DATA_DIR_ENV = ENV["data"]
 FORMAT_KEY = "stresslens_recovery"
 DELAY_MS = 3000
 """Quiet time after the last change before the recovery file is written (ms)."""
@@ -60,12 +61,7 @@ class RecoveryError(OSError):
 
 def data_dir() -> Path:
     """``$STRESSLENS_DATA_DIR`` or the platform's per-user data folder for Stresslens."""
-    override = os.environ.get(DATA_DIR_ENV)
-    if override:
-        return Path(override)
-    from platformdirs import user_data_dir
-
-    return Path(user_data_dir("stresslens", appauthor=False))
+    return user_folder("data")
 
 
 def recovery_dir() -> Path:

@@ -24,7 +24,9 @@ from collections.abc import Callable
 from pathlib import Path
 from types import TracebackType
 
-LOG_DIR_ENV = "STRESSLENS_LOG_DIR"
+from .user_dirs import ENV, user_folder
+
+LOG_DIR_ENV = ENV["log"]
 LOG_NAME = "stresslens.log"
 MAX_BYTES = 1_000_000
 """Size in bytes at which the log rolls over to ``stresslens.log.1``."""
@@ -37,12 +39,7 @@ _HANDLER_NAME = "stresslens-file"
 
 def log_dir() -> Path:
     """The folder of the log file: ``$STRESSLENS_LOG_DIR`` or the platform's log folder."""
-    override = os.environ.get(LOG_DIR_ENV)
-    if override:
-        return Path(override)
-    from platformdirs import user_log_dir
-
-    return Path(user_log_dir("stresslens", appauthor=False))
+    return user_folder("log")
 
 
 def log_path() -> Path:

@@ -181,3 +181,16 @@ def test_a_failed_background_solve_is_said_and_its_traceback_logged(qtbot, log_f
     assert said == [(7, "KeyError: 'a key that is not there'")]
     text = read_log(log_folder)
     assert "solve of revision 7 failed" in text and "broken_solve" in text
+
+
+def test_without_overrides_the_platform_folders_are_used(monkeypatch) -> None:  # noqa: ANN001
+    import platformdirs
+
+    from app.user_dirs import ENV, user_folder
+
+    for key in ENV.values():
+        monkeypatch.delenv(key, raising=False)
+    assert user_folder("log") == Path(platformdirs.user_log_dir("stresslens", appauthor=False))
+    assert user_folder("data") == Path(platformdirs.user_data_dir("stresslens",
+                                                                  appauthor=False))
+    assert ls.log_path().name == "stresslens.log"
