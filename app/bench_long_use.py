@@ -10,9 +10,12 @@ pause, and again, for the given number of minutes.  It prints:
   growth between them, and the RSS at each minute (target: growth < 50 MB over
   10 minutes);
 * responsiveness: the longest gap between ticks of a 10 ms heartbeat timer on the GUI
-  thread while dragging (target: < 100 ms), its 99th percentile, and the longest gap
-  with the window idle measured in the same run (the baseline);
-* how many drafts and full solves were shown or dropped as stale.
+  thread while dragging (target: < 100 ms), the GUI thread's CPU time within it, its
+  99th percentile, how many long gaps were the GUI thread's own work, and the longest
+  gap with the window idle measured in the same run (the baseline);
+* the machine's load and CPU pressure (Linux pressure-stall information) over the run,
+  to read the stall figures against;
+* how many drafts and full solves were shown or dropped as stale, and the undo steps.
 
 Figures, not pass/fail: the machine is noisy.  ``tests/app/test_long_use.py`` runs a
 one-minute smoke run.
@@ -95,7 +98,7 @@ class Heartbeat:
 
 
 class Hand:
-    """Drives the mouse on the canvas viewport: press, move in a triangle wave, release."""
+    """Drives the mouse on the canvas viewport: press, move out and back along a sine, release."""
 
     def __init__(self, window, part_name: str) -> None:  # noqa: ANN001
         self.w, self.name = window, part_name
