@@ -205,7 +205,10 @@ def compute(layout: Layout, revision: int, resolution: Resolution, estimate_erro
     raster, emag, box = resample(sol)
     volts = [p.volts for p in sol.parts if p.volts is not None] + [0.0]
     top = field_scale_top(sol, emag)
-    return LiveResult(revision, resolution, sol, eq, lines, raster, box, emag,
+    # float32 rasters: display precision, and a quarter less to carry back from the
+    # solver process
+    return LiveResult(revision, resolution, sol, eq, lines, raster.astype(np.float32), box,
+                      emag.astype(np.float32),
                       map_rgba(raster, min(volts), max(volts)),
                       map_rgba(emag, 0.0, top, "magma_r", fade_low=True),
                       time.perf_counter() - t0, notes, step,
