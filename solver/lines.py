@@ -78,7 +78,9 @@ def field_lines(solution: Solution, n_lines: int = 40, max_steps: int = 4000
     ex, ey, cond = solution.Ex_kV_per_mm, solution.Ey_kV_per_mm, solution.conductor
     x0, y0, x1, y1 = solution.view_box_mm
     span = max(x1 - x0, y1 - y0)
-    box = (x0 - span, y0 - span, x1 + span, y1 + span)
+    # near the parts, and never past the grid (a box boundary ends it at the walls)
+    box = (max(x0 - span, x[0]), max(y0 - span, y[0]), min(x1 + span, x[-1]),
+           min(y1 + span, y[-1]))
     hx = np.diff(x)
     hy = np.diff(y)
     emax = float(np.hypot(ex, ey).max()) or 1.0
@@ -109,6 +111,9 @@ def field_lines(solution: Solution, n_lines: int = 40, max_steps: int = 4000
               (cond[np.maximum(jy - 1, 0), jx] >= 0)
         out = ((q_new[:, 0] < box[0]) | (q_new[:, 0] > box[2]) | (q_new[:, 1] < box[1])
                | (q_new[:, 1] > box[3]) | (mag < 1e-6 * emax))
+        if out.any():  # end exactly on the edge of the region, not a step past it
+            q_new[out, 0] = np.clip(q_new[out, 0], box[0], box[2])
+            q_new[out, 1] = np.clip(q_new[out, 1], box[1], box[3])
         hist_idx.append(idx)
         hist_pts.append(q_new)
         alive[idx[hit | out]] = False
