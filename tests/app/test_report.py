@@ -357,3 +357,16 @@ def test_surface_profile_on_the_tables_page_of_a_coax() -> None:
     assert s[-1] == pytest.approx(2 * math.pi * COAX_A_MM, rel=0.01)
     limit = lines["limit 0.5 kV/mm"]
     assert np.allclose(limit.get_ydata(), 0.5)
+
+
+@pytest.mark.parametrize("sample", sorted(p.name for p in SAMPLE.parent.glob("*.layout.json")))
+def test_every_sample_layout_gives_a_two_page_report(sample: str, tmp_path: Path) -> None:
+    # smoke check over our own demo layouts (no outside reference: the file must exist,
+    # have both pages and name every part on the tables page)
+    layout = solver.load_layout(SAMPLE.parent / sample)
+    sol = solver.solve(layout, resolution="draft", estimate_error=False)
+    out = write_report(sol, tmp_path / "r.pdf", source_name=sample, when=WHEN)
+    pages = PdfReader(out).pages
+    assert len(pages) == 2
+    page2 = squash(pages[1].extract_text())
+    assert all(p.name in page2 for p in layout.parts)
