@@ -1,4 +1,5 @@
-"""Field overlays on the canvas: potential colour map, equipotentials, field lines, hot spots.
+"""Field overlays on the canvas: potential colour map, equipotentials, field lines, hot
+spots and the discharge-inception path.
 
 Built on the GUI thread from a :class:`app.solve_runner.LiveResult` (plain arrays made
 by the worker).  The colour map goes on the canvas's ``underlay`` layer, below the
@@ -40,24 +41,31 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from .inception_view import path_label
 from .palette import HOT_SPOT
-from .solve_runner import LiveResult
+from .solve_runner import LiveResult, thin
 
-OVERLAY_NAMES = ("potential_map", "field_map", "equipotentials", "field_lines", "hot_spots")
+OVERLAY_NAMES = ("potential_map", "field_map", "equipotentials", "field_lines", "hot_spots",
+                 "inception_path")
 UNDERLAYS = ("potential_map", "field_map")
 DEFAULT_OFF = ("field_map",)
 OVERLAY_LABELS = {"potential_map": "Potential colour map",
                   "field_map": "Field-strength map (darkest at the limit)",
                   "equipotentials": "Equipotential lines",
                   "field_lines": "Field lines",
-                  "hot_spots": "Hot spots"}
+                  "hot_spots": "Hot spots",
+                  "inception_path": "Discharge inception path (streamer estimate)"}
 OVERLAY_SHORT = {"potential_map": "Potential map", "field_map": "Field map",
                  "equipotentials": "Equipotentials", "field_lines": "Field lines",
-                 "hot_spots": "Hot spots"}
+                 "hot_spots": "Hot spots", "inception_path": "Inception path"}
 """Tool-bar texts of the overlay switches."""
 EQUIPOTENTIAL = QColor("#2d3a4a")
 FIELD_LINE = QColor(150, 70, 40, 170)
 LABEL_BG = QColor(251, 250, 247, 220)
+INCEPTION_LABEL_AT = (0.5, 0.35, 0.65, 0.2, 0.8, 0.1, 0.9)
+"""Fractions along the inception path where its label may go, best first."""
+INCEPTION = QColor("#7b2d8e")
+"""The inception path: a dotted violet line, apart in hue from every other overlay."""
 
 
 def rgba_image(rgba: np.ndarray) -> QImage:
@@ -97,6 +105,7 @@ class FieldOverlays:
                  view: QGraphicsView | None = None) -> None:
         self.underlay, self.overlay, self.view = underlay, overlay, view
         self.tags: list[TagItem] = []
+        self.inception_tag: TagItem | None = None
         self.keep_clear: Callable[[], list[QRectF]] = lambda: []
         """More viewport rectangles (px) labels must not cover (e.g. the colour scale)."""
         self.visible = {n: n not in DEFAULT_OFF for n in OVERLAY_NAMES}
@@ -122,11 +131,13 @@ class FieldOverlays:
         """Replace every overlay with those of ``res``."""
         self.clear()
         self.result = res
+        self.inception_tag = None
         self._potential_map(res)
         self._field_map(res)
         self._equipotentials(res)
         self._field_lines(res)
         self._hot_spots(res)
+        self._inception_path(res)
         self.place_labels()
         for name, g in self.groups.items():
             g.setVisible(self.visible[name])
@@ -169,12 +180,14 @@ class FieldOverlays:
         marker or other equipotential label, inside the visible canvas; hide the labels
         that find no such place.  Runs again after every zoom or pan."""
         view = self.view
-        if view is None or not self.tags:
+        if view is None or not (self.tags or self.inception_tag):
             return
         vt = view.viewportTransform()
         vp = QRectF(view.viewport().rect()).adjusted(34, 24, -8, -34)  # clear of the rulers
         taken = [r.adjusted(-2, -2, 2, 2) for r in
                  [*obstacle_rects(view, self.groups["hot_spots"]), *self.keep_clear()]]
+        if self.inception_tag is not None and self.visible["inception_path"]:
+            taken.append(self._place_inception_tag(vt, vp, taken))
         for tag in self.tags:
             size = tag.boundingRect()
             tag.setVisible(False)
@@ -186,6 +199,29 @@ class FieldOverlays:
                     tag.setVisible(True)
                     taken.append(box.adjusted(-3, -3, 3, 3))
                     break
+
+    def _place_inception_tag(self, vt: QTransform, vp: QRectF, taken: list[QRectF]) -> QRectF:
+        """Put the inception label beside its path (right, else left, in screen pixels)
+        where it covers no hot-spot label; return the box it takes (px)."""
+        tag = self.inception_tag
+        size = tag.boundingRect()
+        gap = size.width() / 2 + 8
+        first = None
+        for x, y in tag.candidates:
+            c = vt.map(QPointF(x, y))
+            for dx in (gap, -gap):
+                box = size.translated(c + QPointF(dx, 0))
+                first = first or (box, x, y, dx)
+                if vp.contains(box) and not any(box.intersects(t) for t in taken):
+                    first = (box, x, y, dx)
+                    break
+            else:
+                continue
+            break
+        box, x, y, dx = first
+        tag.setPos(QPointF(x, y))
+        tag.setTransform(QTransform.fromTranslate(dx, 0))
+        return box.adjusted(-3, -3, 3, 3)
 
     def _field_lines(self, res: LiveResult) -> None:
         if res.field_lines:
@@ -229,6 +265,33 @@ class FieldOverlays:
             placed.append((hs.at_mm[0], hs.at_mm[1], right))
             text.setPos(r + 3 if right else -r - 3 - width, -r - 12 + 28 * stack)
             self._add("hot_spots", ring)
+
+    def _inception_path(self, res: LiveResult) -> None:
+        """The field line of the inception estimate: dotted, a dot where it starts on the
+        stressed surface, and a label with the top electrode voltage at inception (kV)."""
+        outcome = res.inception
+        inc = outcome.inception if outcome is not None else None
+        if inc is None or len(inc.path_mm) < 2:
+            return
+        pts = thin(np.asarray(inc.path_mm, float))
+        line = QGraphicsPathItem(_path([pts]))
+        line.setPen(_pen(INCEPTION, 2.2, Qt.PenStyle.DotLine))
+        line.setToolTip(path_label(inc) + f" ({inc.scale:.3g} x applied), from "
+                        f"{inc.start_part} to {inc.ends_at}")
+        self._add("inception_path", line)
+        r = 3.5
+        dot = QGraphicsEllipseItem(QRectF(-r, -r, 2 * r, 2 * r))
+        dot.setFlag(QGraphicsItem.GraphicsItemFlag.ItemIgnoresTransformations, True)
+        dot.setPen(QPen(QColor("white"), 1.0))
+        dot.setBrush(QBrush(INCEPTION))
+        dot.setPos(QPointF(*pts[0]))
+        self._add("inception_path", dot)
+        tag = TagItem(path_label(inc), INCEPTION)
+        tag.candidates = [(float(x), float(y)) for x, y in
+                          (pts[int(f * (len(pts) - 1))] for f in INCEPTION_LABEL_AT)]
+        tag.setPos(QPointF(*tag.candidates[0]))
+        self._add("inception_path", tag)
+        self.inception_tag = tag
 
     def hot_spot_count(self) -> int:
         return len(self.result.solution.hot_spots) if self.result else 0

@@ -19,7 +19,8 @@ process, which costs the GUI nothing; the result (a few MB of arrays) comes back
 pickled.  A solver process that dies is replaced at the next request.
 
 While the user drags (``Document.interacting``) the ``draft`` resolution is used
-without the error estimate; otherwise the layout's own resolution with it.
+without the error estimate; otherwise the layout's own resolution with it, and the
+discharge-inception estimate (:mod:`app.inception_view`) is made on the worker too.
 """
 
 from __future__ import annotations
@@ -38,6 +39,7 @@ from solver.layout import Layout, LayoutError, Resolution
 from solver.solution import Solution
 
 from .colour_maps import map_rgba
+from .inception_view import InceptionOutcome, assess
 from .solver_process import in_solver_process, warm_up
 
 log = logging.getLogger(__name__)
@@ -96,6 +98,9 @@ class LiveResult:
     """(low, high) ends of the potential colour scale, V."""
     field_top_kV_per_mm: float = 1.0
     """Top of the field-strength colour scale, kV/mm (its bottom is 0)."""
+    inception: InceptionOutcome | None = None
+    """The discharge-inception estimate, or why there is none; None for a draft solve
+    (it costs 30-300 ms, too much for every step of a drag)."""
 
 
 def equipotential_levels(solution: Solution, step: EquipotentialStep | float
@@ -205,6 +210,7 @@ def compute(layout: Layout, revision: int, resolution: Resolution, estimate_erro
     raster, emag, box = resample(sol)
     volts = [p.volts for p in sol.parts if p.volts is not None] + [0.0]
     top = field_scale_top(sol, emag)
+    inception = assess(sol) if estimate_error else None  # full solves only
     # float32 rasters: display precision, and a quarter less to carry back from the
     # solver process
     return LiveResult(revision, resolution, sol, eq, lines, raster.astype(np.float32), box,
@@ -212,7 +218,7 @@ def compute(layout: Layout, revision: int, resolution: Resolution, estimate_erro
                       map_rgba(raster, min(volts), max(volts)),
                       map_rgba(emag, 0.0, top, "magma_r", fade_low=True),
                       time.perf_counter() - t0, notes, step,
-                      (min(volts), max(volts)), top)
+                      (min(volts), max(volts)), top, inception)
 
 
 def recontour(res: LiveResult, step: EquipotentialStep) -> LiveResult:

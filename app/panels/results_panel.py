@@ -1,5 +1,5 @@
 """The results dock: per-part peak surface field, margins, potentials, charges, the
-capacitance matrix and the hot spots.
+capacitance matrix, the hot spots and the discharge-inception estimate with its caution.
 
 Fed on the GUI thread with each :class:`app.solve_runner.LiveResult`.  Clicking a hot
 spot asks (``hot_spot_clicked(x_mm, y_mm)``) for the canvas to zoom there.  Headers are
@@ -22,11 +22,13 @@ from PySide6.QtWidgets import (
     QListWidgetItem,
     QTableWidget,
     QTableWidgetItem,
+    QTextBrowser,
     QVBoxLayout,
     QWidget,
 )
 
-from ..overlays import hot_spot_text
+from ..inception_view import HEADING, INCEPTION_CAUTION, summary_lines
+from ..overlays import INCEPTION, hot_spot_text
 from ..palette import HOT_SPOT
 from ..solve_runner import LiveResult
 
@@ -70,6 +72,10 @@ def _mm(v: float) -> str:
     return "0.0" if text == "-0.0" else text
 
 
+def _html(text: str) -> str:
+    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+
+
 def _table(rows: int, cols: int) -> QTableWidget:
     t = QTableWidget(rows, cols)
     t.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
@@ -110,6 +116,13 @@ class ResultsPanel(QWidget):
         lay.addWidget(self.cap_table, 2)
         lay.addWidget(QLabel("Hot spots (surface field above the limit); click to zoom:"))
         lay.addWidget(self.hot_list, 2)
+        self.inception = QTextBrowser()
+        self.inception.setObjectName("inception")
+        self.inception.setMinimumHeight(20)  # the window must still fit small screens
+        self.inception.setToolTip("The voltages at which a discharge is expected to start, "
+                                  "scaled from the applied ones; the dotted violet path on "
+                                  "the canvas is the field line it is computed along.")
+        lay.addWidget(self.inception, 2)
 
     def show_result(self, res: LiveResult) -> None:
         sol = res.solution
@@ -127,6 +140,29 @@ class ResultsPanel(QWidget):
         self._parts(res, axisym)
         self._capacitance(res, axisym)
         self._hot_spots(res)
+        self._inception(res)
+
+    def _inception(self, res: LiveResult) -> None:
+        """The streamer estimate's block: its numbers (with units) or why there is none."""
+        outcome = res.inception
+        if outcome is None:
+            body = ["Made by the full solve (not while dragging)."]
+        elif outcome.inception is None:
+            body = [f"No estimate: {outcome.reason}"]
+        else:
+            body = summary_lines(outcome.inception)
+        self.inception.setHtml(
+            f"<b style='color:{INCEPTION.name()}'>{HEADING}</b><br>"
+            + "<br>".join(_html(line) for line in body)
+            + f"<p style='color:#6b5200; font-size:small'>{_html(INCEPTION_CAUTION)}</p>")
+
+    def inception_scale(self) -> float | None:
+        """The displayed inception scale (x applied), for tests; None when none is shown."""
+        text = self.inception.toPlainText()
+        marker = "Scale: "
+        if marker not in text:
+            return None
+        return float(text.split(marker, 1)[1].split(" ", 1)[0])
 
     def _parts(self, res: LiveResult, axisym: bool) -> None:
         sol = res.solution
