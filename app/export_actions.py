@@ -18,6 +18,7 @@ from PySide6.QtWidgets import QFileDialog, QMenu, QMessageBox
 from solver.solution import Solution
 
 from .export import ExportError, write_grid_csv, write_surface_csv
+from .inception_view import InceptionOutcome
 from .plotting import ReportOverlays
 from .report import ReportError, write_report
 from .solve_runner import FIELD_LINES
@@ -88,6 +89,7 @@ class ExportActions(QObject):
                               equipotentials=visible["equipotentials"],
                               field_lines=visible["field_lines"],
                               hot_spots=visible["hot_spots"], field_strength_map=False,
+                              inception_path=visible["inception_path"],
                               equipotential_levels_V=levels, n_field_lines=FIELD_LINES)
 
     def source_name(self) -> str:
@@ -107,7 +109,8 @@ class ExportActions(QObject):
             if path is None:
                 return False
         try:
-            out = write_report(solution, path, self.overlays(), self.source_name())
+            out = write_report(solution, path, self.overlays(), self.source_name(),
+                               inception=self._inception_of(solution))
         except ReportError as exc:
             return self._failed(str(exc))
         self.window.show_message(f"Report written to {out}")
@@ -136,6 +139,12 @@ class ExportActions(QObject):
             return self._failed(str(exc))
         self.window.show_message(f"{rows:,} rows of {what} written to {path}")
         return True
+
+    def _inception_of(self, solution: Solution) -> InceptionOutcome | None:
+        """The inception estimate the worker already made for ``solution``, if any (else
+        the report makes it)."""
+        res = self.live.runner.latest
+        return res.inception if res is not None and res.solution is solution else None
 
     def _solution_or_say_why(self) -> Solution | None:
         solution, why = self.current()

@@ -24,8 +24,10 @@ from matplotlib.cm import ScalarMappable
 from scipy.interpolate import RegularGridInterpolator
 from scipy.ndimage import distance_transform_edt
 
+from solver.inception import Inception
 from solver.solution import Solution
 
+from .plot_inception import draw_inception_path
 from .plot_markers import draw_hot_spots
 from .plot_parts import draw_parts
 from .plot_style import (
@@ -60,6 +62,7 @@ class ReportOverlays:
     field_lines: bool = True
     field_strength_map: bool = False
     hot_spots: bool = True
+    inception_path: bool = True
     equipotential_step_V: float | None = None
     equipotential_levels_V: tuple[float, ...] | None = None
     n_field_lines: int = 40
@@ -277,12 +280,14 @@ def draw_axis_of_symmetry(ax: Axes, solution: Solution) -> None:
 
 
 def draw_solution(ax: Axes, solution: Solution, overlays: ReportOverlays,
-                  aspect: float | None = None) -> tuple[ScalarMappable | None, list[str]]:
+                  aspect: float | None = None, inception: Inception | None = None
+                  ) -> tuple[ScalarMappable | None, list[str]]:
     """Draw everything ``overlays`` asks for; return the colour-map artist and notes.
 
     ``aspect`` (width / height of the axes box) widens the view to fill it, see
     :func:`fitted_view`.  The notes are sentences for the caption (e.g. a coarsened
-    equipotential step).
+    equipotential step).  ``inception``, when given, has its path drawn
+    (:func:`app.plot_inception.draw_inception_path`) if ``overlays.inception_path``.
     """
     solution = replace(solution, view_box_mm=fitted_view(solution, aspect))
     mappable = draw_colour_map(ax, solution, overlays)
@@ -293,6 +298,8 @@ def draw_solution(ax: Axes, solution: Solution, overlays: ReportOverlays,
     draw_axis_of_symmetry(ax, solution)
     if overlays.hot_spots:
         draw_hot_spots(ax, solution)
+    if overlays.inception_path and inception is not None:
+        draw_inception_path(ax, inception)
     x0, y0, x1, y1 = solution.view_box_mm
     ax.set_xlim(x0, x1)
     ax.set_ylim(y0, y1)

@@ -28,6 +28,8 @@ from solver.solution import Solution
 from . import palette
 from .atomic_file import write_atomically
 from .caution import CAUTION
+from .inception_view import InceptionOutcome, assess
+from .plot_inception import INCEPTION_COLOUR, INCEPTION_STYLE
 from .plot_labels import place_axes_labels
 from .plot_markers import peak_location
 from .plot_style import (
@@ -75,13 +77,20 @@ class ReportError(ValueError):
 
 
 def render_figure(solution: Solution, overlays: ReportOverlays | None = None,
-                  source_name: str = "", when: datetime | None = None) -> Figure:
-    """Page 1: the cross-section with its overlays, colour bar, summary and caution."""
+                  source_name: str = "", when: datetime | None = None,
+                  inception: InceptionOutcome | None = None) -> Figure:
+    """Page 1: the cross-section with its overlays, colour bar, summary and caution.
+
+    ``inception`` is the discharge-inception outcome (made here when not given); its
+    path is drawn when there is one and ``overlays.inception_path`` is on.
+    """
     overlays = overlays or ReportOverlays()
     when = when or datetime.now(timezone.utc)
+    inception = assess(solution) if inception is None else inception
     fig = Figure(figsize=FIGURE_SIZE_IN)
     ax = fig.add_axes(MAP_AXES)
-    mappable, notes = draw_solution(ax, solution, overlays, aspect=_axes_aspect(fig))
+    mappable, notes = draw_solution(ax, solution, overlays, aspect=_axes_aspect(fig),
+                                    inception=inception.inception)
     if mappable is not None:
         label = ("field strength |E| (kV/mm)" if overlays.field_strength_map
                  else "potential (kV)")
@@ -90,7 +99,8 @@ def render_figure(solution: Solution, overlays: ReportOverlays | None = None,
     place_axes_labels(ax)
     _header(fig, solution, source_name, when)
     table_bottom = _summary(fig, solution)
-    _legend(fig, solution, overlays, table_bottom - 0.04)
+    _legend(fig, solution, overlays, table_bottom - 0.04,
+            overlays.inception_path and inception.inception is not None)
     _settings(fig, solution)
     _footer(fig, notes + list(solution.notes))
     return fig
@@ -162,7 +172,8 @@ def _summary_table(fig: Figure, solution: Solution, x: float, y: float) -> float
     return y - 0.026 * (len(rows) + 1) - 0.022
 
 
-def _legend(fig: Figure, solution: Solution, overlays: ReportOverlays, top: float) -> None:
+def _legend(fig: Figure, solution: Solution, overlays: ReportOverlays, top: float,
+            inception_path: bool = False) -> None:
     """Symbols: one swatch per kind present, then the line and marker overlays."""
     handles: list[object] = []
     for kind in ("electrode", "floating", "dielectric"):
@@ -185,6 +196,10 @@ def _legend(fig: Figure, solution: Solution, overlays: ReportOverlays, top: floa
     if overlays.hot_spots:
         handles.append(Line2D([], [], ls="none", marker="*", ms=11, mfc="white", mec=PEAK_COLOUR,
                               label="peak surface field"))
+    if inception_path:
+        handles.append(Line2D([], [], color=INCEPTION_COLOUR, lw=1.8, ls=INCEPTION_STYLE,
+                              marker="o", markevery=[0], ms=4, mec="white",
+                              label="discharge inception path (streamer estimate)"))
     fig.legend(handles=handles, loc="upper left", bbox_to_anchor=(0.695, top), fontsize=8.5,
                frameon=False, handlelength=2.4, borderaxespad=0.0)
 
@@ -210,10 +225,12 @@ def _footer(fig: Figure, notes: list[str]) -> None:
 
 
 def write_report(solution: Solution, path: str | Path, overlays: ReportOverlays | None = None,
-                 source_name: str = "", when: datetime | None = None) -> Path:
+                 source_name: str = "", when: datetime | None = None,
+                 inception: InceptionOutcome | None = None) -> Path:
     """Write the report; the format follows the extension (.pdf, .png or .svg).
 
-    PDF: page 1 the figure (A4 landscape), page 2 the tables (A4 portrait).  PNG: the
+    PDF: page 1 the figure (A4 landscape), page 2 the tables and the discharge-inception
+    estimate with its caution (A4 portrait).  PNG: the
     figure at :data:`FIGURE_DPI`.  SVG: the figure, text kept as text.  Raises
     :class:`ReportError` for another extension or a folder that cannot be written.
     """
@@ -223,14 +240,15 @@ def write_report(solution: Solution, path: str | Path, overlays: ReportOverlays 
         raise ReportError(f"{target.name}: unknown report format '{ext or '(none)'}'; "
                           f"use one of {', '.join(REPORT_FORMATS)}")
     when = when or datetime.now(timezone.utc)
-    fig = render_figure(solution, overlays, source_name or target.name, when)
-    write_atomically(target, lambda f: _save(f, ext, fig, solution, source_name, when), False,
-                     ReportError)
+    inception = assess(solution) if inception is None else inception
+    fig = render_figure(solution, overlays, source_name or target.name, when, inception)
+    write_atomically(target, lambda f: _save(f, ext, fig, solution, source_name, when,
+                                             inception), False, ReportError)
     return target
 
 
 def _save(f: IO[bytes], ext: str, fig: Figure, solution: Solution, source_name: str,
-          when: datetime) -> None:
+          when: datetime, inception: InceptionOutcome) -> None:
     meta = {"Title": solution.layout.title or source_name, "Creator": "Stresslens"}
     if ext == ".png":
         fig.savefig(f, format="png", dpi=FIGURE_DPI, metadata={"Title": meta["Title"],
@@ -246,4 +264,4 @@ def _save(f: IO[bytes], ext: str, fig: Figure, solution: Solution, source_name: 
 
         with PdfPages(f, metadata={**meta, "Subject": CAUTION}) as pdf:
             pdf.savefig(fig)
-            pdf.savefig(render_tables_page(solution, source_name, when))
+            pdf.savefig(render_tables_page(solution, source_name, when, inception))

@@ -23,6 +23,7 @@ from solver.layout import FixedLimit, Layout
 from solver.solution import PartResult, Solution
 
 from .caution import CAUTION
+from .inception_view import HEADING, InceptionOutcome, report_lines
 from .report_numbers import fmt_num, fmt_point, fmt_si, point_decimals
 from .report_profile import draw_surface_profiles
 
@@ -247,8 +248,10 @@ def _rule(fig: Figure, y: float, x0: float, x1: float) -> Line2D:
     return Line2D([x0, x1], [y, y], transform=fig.transFigure, color="#555555", lw=0.6)
 
 
-def render_tables_page(solution: Solution, source_name: str, when: datetime) -> Figure:
-    """Page 2: parts, hot spots, charges and capacitances, settings, solver statistics."""
+def render_tables_page(solution: Solution, source_name: str, when: datetime,
+                       inception: InceptionOutcome | None = None) -> Figure:
+    """Page 2: parts, hot spots, the discharge-inception estimate (when ``inception`` is
+    given) with its caution, charges and capacitances, settings, solver statistics."""
     fig = Figure(figsize=A4_PORTRAIT_IN)
     cur = _Cursor(fig)
     fig.text(cur.left, cur.y, "Results in numbers", fontsize=14, weight="bold", va="top")
@@ -272,6 +275,8 @@ def render_tables_page(solution: Solution, source_name: str, when: datetime) -> 
         cur.table(["dielectric", "εr", "field inside kV/mm", "at (mm)"], inside,
                   [1.6, 0.8, 1.7, 1.6], [False, True, True, False], span=0.72)
     _hot_spot_section(cur, solution)
+    if inception is not None:
+        _inception_section(cur, inception)
     _charge_section(cur, solution)
     cur.heading("Settings")
     cur.table(["setting", "value"], settings_rows(solution), [1.3, 6.0], [False, False],
@@ -308,6 +313,17 @@ def _hot_spot_section(cur: _Cursor, solution: Solution) -> None:
               span=0.85)
     if more:
         cur.line(f"… and {more} weaker hot spots (all are in the surface-field CSV export).")
+
+
+def _inception_section(cur: _Cursor, inception: InceptionOutcome) -> None:
+    """The streamer estimate in words (kV, mm, kV/mm), then its caution in small type."""
+    cur.heading(HEADING)
+    *lines, caution = report_lines(inception)
+    for line in lines:
+        for k, part in enumerate(textwrap.wrap(line, 110)):
+            cur.line(("    " if k else "") + part)
+    for part in textwrap.wrap(caution, 125):
+        cur.line(part, size=7.5, colour="#6b5200")
 
 
 def _charge_section(cur: _Cursor, solution: Solution) -> None:
