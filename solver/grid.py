@@ -154,10 +154,10 @@ def _grid(layout: Layout, outlines: tuple[PartOutline, ...], res: Resolution, co
     axisym = layout.symmetry == "axisymmetric"
     lo, hi, outer, volts, centre = _domain(layout, (x0, y0, x1, y1), size, axisym)
     band = BAND_BY_RESOLUTION.get(res, BAND_CELLS) if isinstance(res, str) else BAND_CELLS
-    try:
-        xs = _axis(lo[0], hi[0], pts[:, 0], h_pts, growth, h_roi, (x0, x1), cap // 2, band)
+    try:  # every grid has dozens of rows at least (the far field alone), so cap x early
+        xs = _axis(lo[0], hi[0], pts[:, 0], h_pts, growth, h_roi, (x0, x1), cap // 32, band)
     except _TooLarge as exc:
-        raise _TooLarge(2 * exc.nodes) from None
+        raise _TooLarge(32 * exc.nodes) from None
     try:
         ys = _axis(lo[1], hi[1], pts[:, 1], h_pts, growth, h_roi, (y0, y1), cap // len(xs),
                    band)
