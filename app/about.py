@@ -1,10 +1,13 @@
-"""The About box: what the program is, its version, and the high-voltage caution."""
+"""The About box: what the program is, its version, the high-voltage caution and the
+caution of the discharge-inception estimate."""
 
 from __future__ import annotations
 
 from html import escape
 
 from PySide6.QtWidgets import QMessageBox, QWidget
+
+from solver.inception import INCEPTION_CAUTION
 
 from .caution import CAUTION, CAUTION_TITLE
 
@@ -24,7 +27,9 @@ def about_html() -> str:
             "axisymmetric, set their potentials, and see the equipotentials, the field lines "
             "and every place where the surface field exceeds the limit you choose.</p>"
             "<p>Lengths in mm, potentials in V or kV, fields in kV/mm.</p>"
-            f"<p style='color:#9b1c1c'><b>{escape(CAUTION_TITLE)}</b> {rest}</p>")
+            f"<p style='color:#9b1c1c'><b>{escape(CAUTION_TITLE)}</b> {rest}</p>"
+            "<p><small><b>Discharge inception estimate.</b> "
+            f"{escape(INCEPTION_CAUTION)}</small></p>")
 
 
 def show_about(parent: QWidget | None) -> None:

@@ -97,3 +97,11 @@ def test_report_pdf_says_why_there_is_no_estimate(tmp_path) -> None:
     page2 = _words(PdfReader(str(out)).pages[1].extract_text())
     assert f"No estimate: {outcome.reason}" in page2
     assert _words(INCEPTION_CAUTION) in page2
+
+
+def test_about_box_carries_the_inception_caution() -> None:
+    from html import unescape
+
+    from app.about import about_html
+
+    assert INCEPTION_CAUTION in unescape(about_html())
