@@ -4,7 +4,9 @@ Every document change asks for a solve of an immutable :class:`solver.layout.Lay
 snapshot tagged with the document's revision.  At most one solve runs at a time (on a
 private ``QThreadPool`` of one thread); a request made while one runs replaces the
 pending request, so a burst of edits costs at most two solves.  A result whose
-revision is older than the newest request is dropped, never shown.
+revision is older than the newest request is dropped, never shown, with one exception:
+while a part is dragged, a finished draft newer than the one on screen is shown and
+the status says it follows the drag (the next draft is already on its way).
 
 The worker computes everything heavy off the GUI thread: the solve itself and the
 overlay geometry (equipotential polylines, field lines, the potential resampled to a
@@ -270,6 +272,7 @@ class _Request:
     revision: int
     work: Callable[[], LiveResult]
     label: str
+    draft: bool = False
 
 
 class SolveRunner(QObject):
@@ -291,6 +294,7 @@ class SolveRunner(QObject):
         self._relay.failed.connect(self._on_failed)
         self._pending: _Request | None = None
         self._running: int | None = None
+        self._running_draft = False
         self.latest_requested = -1
         self.latest: LiveResult | None = None
         self.state = "idle"
@@ -307,7 +311,8 @@ class SolveRunner(QObject):
         step = self.step
         self.latest_requested = max(self.latest_requested, revision)
         self._pending = _Request(revision, lambda: in_solver_process(
-            compute, layout, revision, resolution, not draft, step), f"solving ({resolution})")
+            compute, layout, revision, resolution, not draft, step), f"solving ({resolution})",
+            draft)
         self._set_state("solving", self._pending.label)
         self._start_next()
 
@@ -344,6 +349,7 @@ class SolveRunner(QObject):
             return
         req, self._pending = self._pending, None
         self._running = req.revision
+        self._running_draft = req.draft
         self.pool.start(_Job(self._relay, req.revision, req.work))
 
     def _finish(self) -> None:
@@ -351,7 +357,16 @@ class SolveRunner(QObject):
         self._start_next()
 
     def _on_done(self, revision: int, res: LiveResult) -> None:
+        following = self._running_draft and revision < self.latest_requested and (
+            self.latest is None or revision > self.latest.revision)
         self._finish()
+        if following:
+            # mid-drag: the newest finished draft is a moment behind the mouse; showing it
+            # (labelled as such) is what lets the peak be watched while dragging
+            self.latest = res
+            self.result_ready.emit(res)
+            self._set_state("solving", "following the drag (draft of a moment ago)")
+            return
         if revision < self.latest_requested:
             self.dropped += 1
             return
