@@ -21,7 +21,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .discretize import EPS0, System, discretize
-from .geometry import PartOutline, layout_outlines
+from .geometry import PartOutline, layout_outlines, same_conductor
 from .grid import Grid, build_grid
 from .layout import FixedLimit, Layout, Resolution
 from .linsolve import Prepared, prepare, single_threaded_blas
@@ -31,6 +31,7 @@ from .solution import Solution
 from .surface import conductor_samples, ring_charge_integral
 
 COARSEN_FOR_ERROR = 1.6
+TOUCH_MM = 1e-6
 
 
 @dataclass(frozen=True)
@@ -47,6 +48,9 @@ class PreparedLayout:
     setup_seconds: float
     converged: bool
     residual: float
+    groups: dict[int, tuple[int, ...]]
+    """Conductors that touch (electrodes at one potential) share one unit solution: the
+    key is the group's first part, the value all its parts."""
 
 
 @single_threaded_blas
@@ -63,25 +67,54 @@ def prepare_layout(layout: Layout, resolution: Resolution | None = None,
     system = discretize(layout, outlines, grid)
     prep = prepare(system.A)
     n_parts = len(layout.parts)
-    wanted = [k for k, p in enumerate(layout.parts) if p.is_conductor and (
-        all_conductors or p.kind == "floating" or (p.volts or 0.0) != 0.0)]
+    groups = conductor_groups(layout, outlines)
+    wanted = [g for g, members in groups.items() if all_conductors or any(
+        layout.parts[k].kind == "floating" or (layout.parts[k].volts or 0.0) != 0.0
+        for k in members)]
     if grid.outer == "dirichlet" and grid.outer_volts != 0.0:
         wanted.append(n_parts)
+        groups = {**groups, n_parts: (n_parts,)}
     unit, charges = {}, {}
     need_charges = all_conductors or any(p.kind == "floating" for p in layout.parts)
     worst, ok = 0.0, True
-    prev = None
-    for k in wanted:
-        b = np.asarray(system.G[:, k].todense()).ravel()
-        u, info = prep.solve(b, x0=prev)
+    for g in wanted:
+        members = list(groups[g])
+        b = np.asarray(system.G[:, members].sum(axis=1)).ravel()
+        u, info = prep.solve(b)
         worst, ok = max(worst, info.residual), ok and info.converged
-        unit[k] = u
+        unit[g] = u
         volts = np.zeros(n_parts + 1)
-        volts[k] = 1.0
+        volts[members] = 1.0
         if need_charges:
-            charges[k] = part_charges(layout, outlines, system, u, volts)
+            charges[g] = part_charges(layout, outlines, system, u, volts)
     return PreparedLayout(layout, outlines, grid, system, prep, unit, charges,
-                          time.perf_counter() - t0, ok, worst)
+                          time.perf_counter() - t0, ok, worst, groups)
+
+
+def conductor_groups(layout: Layout, outlines: tuple[PartOutline, ...]
+                     ) -> dict[int, tuple[int, ...]]:
+    """Conductor parts grouped by contact: electrodes that touch or overlap (the format
+    allows it only at one potential) are one conductor.  Setting them to different
+    potentials in separate unit solutions would put a singular field at the contact and
+    make the capacitance matrix meaningless."""
+    parent = list(range(len(layout.parts)))
+
+    def root(k: int) -> int:
+        while parent[k] != k:
+            parent[k] = parent[parent[k]]
+            k = parent[k]
+        return k
+
+    cond = [k for k, p in enumerate(layout.parts) if p.is_conductor]
+    for a_i, a in enumerate(cond):
+        for b in cond[a_i + 1:]:
+            if same_conductor(layout.parts[a], layout.parts[b]) and \
+                    outlines[a].polygon.distance(outlines[b].polygon) <= TOUCH_MM:
+                parent[root(b)] = root(a)
+    groups: dict[int, list[int]] = {}
+    for k in cond:
+        groups.setdefault(root(k), []).append(k)
+    return {min(m): tuple(sorted(m)) for m in groups.values()}
 
 
 def part_charges(layout: Layout, outlines: tuple[PartOutline, ...], system: System,
@@ -133,9 +166,11 @@ def solve_prepared(pl: PreparedLayout, estimate: dict[str, float] | None = None,
             u += volts[k] * uk
     phi = grid_potential(pl.system, u, volts)
     ex, ey = grid_field(pl.system, phi, volts)
-    cap_idx = [k for k, p in enumerate(pl.layout.parts) if p.is_conductor and k in pl.charges]
-    if len(cap_idx) == sum(p.is_conductor for p in pl.layout.parts):
-        cap = np.array([[pl.charges[j][i] for j in cap_idx] for i in cap_idx])
+    n_parts = len(pl.layout.parts)
+    cap_idx = [g for g in pl.groups if g < n_parts]
+    if cap_idx and all(g in pl.charges for g in cap_idx):
+        cap = np.array([[sum(pl.charges[j][i] for i in pl.groups[g]) for j in cap_idx]
+                        for g in cap_idx])
     else:
         cap, cap_idx = np.zeros((0, 0)), []
     seconds = pl.setup_seconds + extra_seconds + time.perf_counter() - t0

@@ -65,7 +65,9 @@ def summarise(pl: PreparedLayout, volts: np.ndarray, u: np.ndarray, phi: np.ndar
         Ey_kV_per_mm=ey, conductor=system.conductor, eps_r=system.eps_node,
         parts=tuple(results), surfaces=tuple(traces),
         hot_spots=tuple(sorted(spots, key=lambda h: -h.field_kV_per_mm / h.limit_kV_per_mm)),
-        capacitance=cap, conductor_names=tuple(layout.parts[k].name for k in cap_idx),
+        capacitance=cap,
+        conductor_names=tuple(" + ".join(layout.parts[k].name for k in pl.groups[g])
+                              for g in cap_idx),
         unknowns=int(system.A.shape[0]), solve_seconds=seconds, converged=pl.converged,
         residual=pl.residual, peak_field_kV_per_mm=peak,
         estimated_error_percent=max(errs) if errs else None, view_box_mm=(x0, y0, x1, y1))

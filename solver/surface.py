@@ -75,7 +75,9 @@ def conductor_samples(system: System, outlines: tuple[PartOutline, ...], phi: np
         kb = system.nb_part[back][j, i]
         bj, bi = np.clip(j - dj, 0, ny - 1), np.clip(i - di, 0, nx - 1)
         v2 = np.where(kb == NODE, phi[bj, bi], part_volts[np.clip(kb, 0, n_parts)])
-        quad = (kb != OUTSIDE) & (s2x > 0)
+        # the quadratic must not reach across a dielectric interface (phi has a kink there)
+        same_medium = system.eps_node[bj, bi] == system.eps_node[j, i]
+        quad = (kb != OUTSIDE) & (s2x > 0) & same_medium
         s2 = s1 + s2x
         with np.errstate(divide="ignore", invalid="ignore"):
             dq = (-(s1 + s2) / (s1 * s2) * vb + s2 / (s1 * (s2 - s1)) * vp
