@@ -112,11 +112,13 @@ def build_window(layout_path: str | None) -> MainWindow:
     A bad file is reported in a dialog by the window itself; the window stays open.
     """
     from .autosave import attach_autosave
+    from .export_actions import attach_export_actions
     from .live_view import attach_live_view
     from .main_window import MainWindow
 
     window = MainWindow()
     attach_live_view(window)
+    attach_export_actions(window)
     attach_autosave(window)
     if layout_path:
         window.files.load(layout_path)
