@@ -179,12 +179,9 @@ def describe_limit(layout: Layout) -> str:
 
 
 def describe_resolution(solution: Solution) -> str:
-    """The layout's resolution setting: draft, normal, fine or the finest spacing in mm.
-
-    The headless commands write a ``--resolution`` override into the layout they solve,
-    so the setting printed is the one used.
-    """
-    r = solution.layout.resolution
+    """The resolution the solve used: draft, normal, fine or the finest spacing in mm
+    (``Solution.resolution``; the layout's own setting for older solutions)."""
+    r = solution.resolution if solution.resolution is not None else solution.layout.resolution
     return r if isinstance(r, str) else f"finest spacing {fmt_num(r)} mm"
 
 

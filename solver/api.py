@@ -51,6 +51,7 @@ class PreparedLayout:
     groups: dict[int, tuple[int, ...]]
     """Conductors that touch (electrodes at one potential) share one unit solution: the
     key is the group's first part, the value all its parts."""
+    resolution: Resolution = "normal"
 
 
 @single_threaded_blas
@@ -88,7 +89,8 @@ def prepare_layout(layout: Layout, resolution: Resolution | None = None,
         if need_charges:
             charges[g] = part_charges(layout, outlines, system, u, volts)
     return PreparedLayout(layout, outlines, grid, system, prep, unit, charges,
-                          time.perf_counter() - t0, ok, worst, groups)
+                          time.perf_counter() - t0, ok, worst, groups,
+                          layout.resolution if resolution is None else resolution)
 
 
 def conductor_groups(layout: Layout, outlines: tuple[PartOutline, ...]

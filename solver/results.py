@@ -70,7 +70,8 @@ def summarise(pl: PreparedLayout, volts: np.ndarray, u: np.ndarray, phi: np.ndar
                               for g in cap_idx),
         unknowns=int(system.A.shape[0]), solve_seconds=seconds, converged=pl.converged,
         residual=pl.residual, peak_field_kV_per_mm=peak,
-        estimated_error_percent=max(errs) if errs else None, view_box_mm=(x0, y0, x1, y1))
+        estimated_error_percent=max(errs) if errs else None, view_box_mm=(x0, y0, x1, y1),
+        resolution=pl.resolution)
 
 
 def _conductor_result(pl: PreparedLayout, k: int, traces: list[SurfaceTrace], v: float,

@@ -102,6 +102,8 @@ class Solution:
     view_box_mm: tuple[float, float, float, float] = (0.0, 0.0, 1.0, 1.0)
     """(x0, y0, x1, y1): the region of interest around the parts (the grid extends further)."""
     notes: tuple[str, ...] = field(default_factory=tuple)
+    resolution: str | float | None = None
+    """The resolution this solve used (the layout's own unless overridden)."""
 
     def part(self, name: str) -> PartResult:
         for p in self.parts:
