@@ -46,7 +46,7 @@ from .report_tables import (
     describe_boundary,
     describe_limit,
     describe_resolution,
-    render_tables_page,
+    render_tables_pages,
     summary_rows,
     view_decimals,
 )
@@ -230,7 +230,7 @@ def write_report(solution: Solution, path: str | Path, overlays: ReportOverlays 
     """Write the report; the format follows the extension (.pdf, .png or .svg).
 
     PDF: page 1 the figure (A4 landscape), page 2 the tables and the discharge-inception
-    estimate with its caution (A4 portrait).  PNG: the
+    estimate with its caution (A4 portrait), continued on page 3 when they need it.  PNG: the
     figure at :data:`FIGURE_DPI`.  SVG: the figure, text kept as text.  Raises
     :class:`ReportError` for another extension or a folder that cannot be written.
     """
@@ -264,4 +264,5 @@ def _save(f: IO[bytes], ext: str, fig: Figure, solution: Solution, source_name: 
 
         with PdfPages(f, metadata={**meta, "Subject": CAUTION}) as pdf:
             pdf.savefig(fig)
-            pdf.savefig(render_tables_page(solution, source_name, when, inception))
+            for page in render_tables_pages(solution, source_name, when, inception):
+                pdf.savefig(page)

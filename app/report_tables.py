@@ -11,7 +11,7 @@ from __future__ import annotations
 import math
 import textwrap
 from collections.abc import Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from datetime import datetime
 
 import numpy as np
@@ -25,7 +25,7 @@ from solver.solution import PartResult, Solution
 from .caution import CAUTION
 from .inception_view import HEADING, InceptionOutcome, report_lines
 from .report_numbers import fmt_num, fmt_point, fmt_si, point_decimals
-from .report_profile import draw_surface_profiles
+from .report_profile import closest_to_limit, draw_surface_profiles
 
 A4_PORTRAIT_IN = (8.27, 11.69)
 MAX_HOT_SPOT_ROWS = 18
@@ -35,6 +35,8 @@ PROFILE_BOTTOM = 0.12
 PROFILE_MIN_HEIGHT = 0.12
 """Figure fractions: the profile's lower edge (above the caution) and least height."""
 CHARGE_ROUND_OFF = 1e-9
+TEXT_FLOOR = 0.10
+"""Figure fraction: no text row below it on a tables page (the caution block's room)."""
 
 
 def charge_unit(layout: Layout) -> str:
@@ -205,22 +207,41 @@ def statistics_rows(solution: Solution) -> list[list[str]]:
 
 @dataclass
 class _Cursor:
-    """Writes text rows down a figure, top to bottom, in figure coordinates."""
+    """Writes text rows down a figure, top to bottom, in figure coordinates; a row that
+    would reach the caution block goes on a continuation page (``pages``)."""
 
     fig: Figure
     y: float = 0.95
     left: float = 0.07
     right: float = 0.93
+    pages: list[Figure] = field(default_factory=list)
 
     def _dy(self, points: float) -> float:
         return points / (self.fig.get_figheight() * 72.0)
 
+    def need(self, points: float) -> None:
+        """Start a continuation page unless ``points`` more fit above the caution block."""
+        if self.y - self._dy(points) < TEXT_FLOOR:
+            self.new_page()
+
+    def new_page(self) -> None:
+        """Close this page (its caution) and go on at the top of a continuation page."""
+        _caution_block(self.fig, self.left, self.right)
+        self.fig = Figure(figsize=A4_PORTRAIT_IN)
+        self.pages.append(self.fig)
+        self.y = 0.95
+        self.fig.text(self.left, self.y, "Results in numbers (continued)", fontsize=14,
+                      weight="bold", va="top")
+        self.y -= self._dy(24)
+
     def heading(self, text: str) -> None:
+        self.need(10 + 17 + 12)  # a heading is never left alone at the foot of a page
         self.y -= self._dy(10)
         self.fig.text(self.left, self.y, text, fontsize=11, weight="bold", va="top")
         self.y -= self._dy(17)
 
     def line(self, text: str, size: float = 8.5, colour: str = "#1b1b1b") -> None:
+        self.need(size * 1.5)
         self.fig.text(self.left, self.y, text, fontsize=size, va="top", color=colour)
         self.y -= self._dy(size * 1.5)
 
@@ -232,6 +253,7 @@ class _Cursor:
         right = self.left + span * (self.right - self.left)
         xs = self.left + edges * (right - self.left)
         for k, row in enumerate([list(header), *map(list, rows)]):
+            self.need(12)
             for j, cell in enumerate(row):
                 x, ha = (xs[j + 1] - 0.008, "right") if numeric[j] else (xs[j], "left")
                 self.fig.text(x, self.y, cell, fontsize=8, va="top", ha=ha,
@@ -247,10 +269,18 @@ def _rule(fig: Figure, y: float, x0: float, x1: float) -> Line2D:
 
 def render_tables_page(solution: Solution, source_name: str, when: datetime,
                        inception: InceptionOutcome | None = None) -> Figure:
-    """Page 2: parts, hot spots, the discharge-inception estimate (when ``inception`` is
-    given) with its caution, charges and capacitances, settings, solver statistics."""
+    """Page 2 (the first of :func:`render_tables_pages`)."""
+    return render_tables_pages(solution, source_name, when, inception)[0]
+
+
+def render_tables_pages(solution: Solution, source_name: str, when: datetime,
+                        inception: InceptionOutcome | None = None) -> list[Figure]:
+    """Page 2 and, when it overflows, its continuation pages: parts, hot spots, the
+    discharge-inception estimate (when ``inception`` is given) with its caution, charges
+    and capacitances, settings, solver statistics, the surface-field profile if there is
+    room.  Every page carries the caution."""
     fig = Figure(figsize=A4_PORTRAIT_IN)
-    cur = _Cursor(fig)
+    cur = _Cursor(fig, pages=[fig])
     fig.text(cur.left, cur.y, "Results in numbers", fontsize=14, weight="bold", va="top")
     cur.y -= cur._dy(20)
     for line in textwrap.wrap(solution.layout.title or source_name, 95):
@@ -284,16 +314,18 @@ def render_tables_page(solution: Solution, source_name: str, when: datetime,
     for note in solution.notes:
         cur.line(f"Note: {note}", size=8)
     _profile_section(cur, solution)
-    _caution_block(fig, cur.left, cur.right)
-    return fig
+    _caution_block(cur.fig, cur.left, cur.right)
+    return cur.pages
 
 
 def _profile_section(cur: _Cursor, solution: Solution) -> None:
-    """The surface-field profile in the room left above the caution, if there is enough."""
+    """The surface-field profile in the room left above the caution, or at the top of a
+    continuation page when too little is left."""
     bottom = PROFILE_BOTTOM
-    top = cur.y - cur._dy(46)
-    if top - bottom < PROFILE_MIN_HEIGHT:
+    if not closest_to_limit(solution):
         return
+    if cur.y - cur._dy(46) - bottom < PROFILE_MIN_HEIGHT:
+        cur.new_page()  # on a page of its own rather than left out
     cur.heading("Surface field along the outlines closest to their limit")
     draw_surface_profiles(cur.fig, solution, (cur.left + 0.05, bottom, 0.55,
                                               cur.y - cur._dy(8) - bottom))

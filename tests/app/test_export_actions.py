@@ -70,7 +70,7 @@ def test_report_and_csv_from_the_editor(window, qtbot, tmp_path: Path) -> None: 
     wait_solved(qtbot, window)
     pdf = tmp_path / "coax.pdf"
     assert window.exports.export_report(str(pdf)), window.exports.last_problem
-    assert len(PdfReader(pdf).pages) == 2
+    assert len(PdfReader(pdf).pages) >= 2  # figure, tables (continued when they overflow)
     surface = tmp_path / "coax_surface.csv"
     assert window.exports.export_surface(str(surface))
     with surface.open(newline="") as f:

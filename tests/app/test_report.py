@@ -81,14 +81,14 @@ def test_pdf_has_figure_and_tables_pages_with_the_solved_numbers(tmp_path: Path)
     sol = solved_sample()
     out = write_report(sol, tmp_path / "r.pdf", source_name=SAMPLE.name, when=WHEN)
     reader = PdfReader(out)
-    assert len(reader.pages) == 2
+    assert len(reader.pages) >= 2  # figure, tables (continued when they overflow)
     w1, h1 = float(reader.pages[0].mediabox.width), float(reader.pages[0].mediabox.height)
     w2, h2 = float(reader.pages[1].mediabox.width), float(reader.pages[1].mediabox.height)
     # A4 297 x 210 mm (ISO 216): page 1 landscape, page 2 portrait
     assert (w1, h1) == pytest.approx((297 * PT_PER_MM, 210 * PT_PER_MM), abs=1.0)
     assert (w2, h2) == pytest.approx((210 * PT_PER_MM, 297 * PT_PER_MM), abs=1.0)
     page1 = squash(reader.pages[0].extract_text())
-    page2 = squash(reader.pages[1].extract_text())
+    page2 = squash(" ".join(pg.extract_text() for pg in reader.pages[1:]))
     assert squash(CAUTION) in page2
     assert "High voltage can kill." in page1
     assert CAUTION in str(reader.metadata.get("/Subject"))
@@ -241,7 +241,7 @@ def test_cli_report_writes_a_two_page_pdf(tmp_path: Path,
     code = cli.main(["report", str(SAMPLE), "-o", str(out), "--resolution", "draft",
                      "--step-kv", "1"])
     assert code == 0, capsys.readouterr().err
-    assert len(PdfReader(out).pages) == 2
+    assert len(PdfReader(out).pages) >= 2  # the tables continue when they overflow
     assert "kV/mm" in capsys.readouterr().out
 
 
@@ -367,6 +367,6 @@ def test_every_sample_layout_gives_a_two_page_report(sample: str, tmp_path: Path
     sol = solver.solve(layout, resolution="draft", estimate_error=False)
     out = write_report(sol, tmp_path / "r.pdf", source_name=sample, when=WHEN)
     pages = PdfReader(out).pages
-    assert len(pages) == 2
+    assert len(pages) >= 2  # the tables continue on a third page when they overflow
     page2 = squash(pages[1].extract_text())
     assert all(p.name in page2 for p in layout.parts)
