@@ -105,3 +105,23 @@ def test_about_box_carries_the_inception_caution() -> None:
     from app.about import about_html
 
     assert INCEPTION_CAUTION in unescape(about_html())
+
+
+def test_tables_that_overflow_continue_on_another_page_above_the_caution() -> None:
+    # common practice, no source: no row of a report may run into its caution block
+    from datetime import datetime, timezone
+
+    from app.caution import CAUTION
+    from app.report_tables import TEXT_FLOOR, render_tables_pages
+
+    board = Path(__file__).resolve().parents[2] / "sample_layouts" / "hv_board_traces.layout.json"
+    sol = solver.solve(load_layout(board), resolution="draft", estimate_error=False)
+    pages = render_tables_pages(sol, "board", datetime(2026, 1, 1, tzinfo=timezone.utc),
+                                assess(sol))
+    assert len(pages) >= 2
+    for page in pages:
+        rows = [t for t in page.texts if not t.get_text().startswith(CAUTION[:20])]
+        assert min(t.get_position()[1] for t in rows) >= TEXT_FLOOR - 1e-9
+        assert any(t.get_text().startswith(CAUTION[:20]) for t in page.texts)
+    text = " ".join(t.get_text() for page in pages for t in page.texts)
+    assert "Discharge inception (streamer estimate)" in text and "solve time" in text
