@@ -20,6 +20,7 @@ from shapely.geometry import Polygon as ShPolygon
 
 from solver.geometry import shape_polygon
 from solver.layout import Circle, Ellipse, LayoutError, Path, Point, Polygon, Rect, Shape
+from solver.params import translated_shape
 
 Ref = tuple[int, int]
 
@@ -43,17 +44,7 @@ def region(shape: Shape) -> ShPolygon | None:
 
 def translated(shape: Shape, dx: float, dy: float) -> Shape:
     """The shape moved by (dx, dy) mm."""
-    def mv(p: Point) -> Point:
-        return (p[0] + dx, p[1] + dy)
-
-    if isinstance(shape, (Circle, Ellipse)):
-        return replace(shape, center=mv(shape.center))
-    if isinstance(shape, Rect):
-        return replace(shape, min=mv(shape.min), max=mv(shape.max))
-    if isinstance(shape, Polygon):
-        return replace(shape, points=tuple(map(mv, shape.points)),
-                       holes=tuple(tuple(map(mv, h)) for h in shape.holes))
-    return replace(shape, points=tuple(map(mv, shape.points)))
+    return translated_shape(shape, dx, dy)
 
 
 def mirrored(shape: Shape, vertical_line: bool, about: float) -> Shape:

@@ -143,7 +143,7 @@ def _changed(layout: Layout, part: Part, param: str, v: float) -> Part:
     if param in ("x", "y"):
         cur = param_value(layout, part.name, param)
         d = v - cur
-        return replace(part, shape=_translated(s, d if param == "x" else 0.0,
+        return replace(part, shape=translated_shape(s, d if param == "x" else 0.0,
                                                d if param == "y" else 0.0))
     if param == "radius":
         _positive(part, param, v)
@@ -217,7 +217,9 @@ def _resized(layout: Layout, part: Part, param: str, v: float) -> Shape:
     return replace(s, points=ring(s.points), holes=tuple(ring(h) for h in s.holes))
 
 
-def _translated(s: Shape, dx: float, dy: float) -> Shape:
+def translated_shape(s: Shape, dx: float, dy: float) -> Shape:
+    """The shape moved by (dx, dy) mm (the editor's moves use this too)."""
+
     def mv(p: tuple[float, float]) -> tuple[float, float]:
         return (p[0] + dx, p[1] + dy)
 
