@@ -121,7 +121,8 @@ class ResultsPanel(QWidget):
         self.inception.setMinimumHeight(20)  # the window must still fit small screens
         self.inception.setToolTip("The voltages at which a discharge is expected to start, "
                                   "scaled from the applied ones; the dotted violet path on "
-                                  "the canvas is the field line it is computed along.")
+                                  "the canvas is the field line it is computed along.\n\n"
+                                  + INCEPTION_CAUTION)
         lay.addWidget(self.inception, 2)
 
     def show_result(self, res: LiveResult) -> None:
@@ -152,7 +153,8 @@ class ResultsPanel(QWidget):
         else:
             body = summary_lines(outcome.inception)
         self.inception.setHtml(
-            f"<b style='color:{INCEPTION.name()}'>{HEADING}</b><br>"
+            f"<b style='color:{INCEPTION.name()}'>{HEADING}</b>"
+            "<span style='color:#6b5200'> \u00b7 see the caution below</span><br>"
             + "<br>".join(_html(line) for line in body)
             + f"<p style='color:#6b5200; font-size:small'>{_html(INCEPTION_CAUTION)}</p>")
 
