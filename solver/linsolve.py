@@ -26,10 +26,11 @@ import scipy.sparse.linalg as spla
 
 log = logging.getLogger(__name__)
 
-DIRECT_LIMIT = 250_000
-"""Systems with fewer unknowns are factorised (SuperLU: 5-7 s and about 1.2 kB per
-unknown at 400k, measured); larger ones use AMG, which on these strongly graded grids
-needs over 100 BiCGStab iterations (see the benchmark)."""
+DIRECT_LIMIT = 600_000
+"""Systems with fewer unknowns are factorised (SuperLU).  Measured here: 400k unknowns
+factorise in 2.6-7 s with about 2 kB per unknown, while classical AMG on the same
+board layout (a thin dielectric, cut distances down to 1e-3 of a cell) took 26 s; AMG
+wins only on the largest grids (see the benchmark)."""
 FALLBACK_DIRECT_LIMIT = 1_500_000
 """Up to this size a stalled AMG solve is finished by factorisation (memory permitting)."""
 RTOL = 1e-8
