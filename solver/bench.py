@@ -56,9 +56,10 @@ def _oracles():
     return analytic_layouts
 
 U = 1000.0  # V
-PEAK_TARGETS = {("coax", "draft"): 1.0, ("coax", "normal"): 0.2, ("coax", "fine"): 0.05,
-                ("spheres", "normal"): 0.2, ("spheres", "fine"): 0.1,
-                ("sphere", "normal"): 0.2, ("sphere", "fine"): 0.1}
+PEAK_TARGETS: dict[tuple[str, Resolution], float] = {
+    ("coax", "draft"): 1.0, ("coax", "normal"): 0.2, ("coax", "fine"): 0.05,
+    ("spheres", "normal"): 0.2, ("spheres", "fine"): 0.1,
+    ("sphere", "normal"): 0.2, ("sphere", "fine"): 0.1}
 """Peak-field error targets, percent, by the first word of the case name and resolution."""
 PEAK_FLOOR = 1e-3
 """Smallest Shortley-Weller peak error (percent) used as a ratio's denominator."""
@@ -218,7 +219,7 @@ def prepare_with(layout: Layout, res: Resolution,
             volts[k] = 1.0
             charges[k] = part_charges(layout, outlines, system, unit[k], volts)
     return PreparedLayout(layout, outlines, grid, system, prep, unit, charges,
-                          time.perf_counter() - t0, True, 0.0)
+                          time.perf_counter() - t0, True, 0.0, {k: (k,) for k in unit}, res)
 
 
 # ------------------------------------------------------------------------ measures
@@ -316,7 +317,7 @@ def million(spacing: float, cap_seconds: float) -> tuple[list[str], float | None
     return lines, ratio, per_unknown
 
 
-def cost_in_matvecs(res: str) -> tuple[list[str], list[float]]:
+def cost_in_matvecs(res: Resolution) -> tuple[list[str], list[float]]:
     """Whole-solve time / one matvec, fresh and after a 1 % change of radius."""
     al = _oracles()
     out, ratios = [], []
@@ -343,7 +344,9 @@ def main(argv: list[str] | None = None) -> int:
     args = ap.parse_args(argv)
     t_start = time.perf_counter()
     big = None if args.quick else million(0.0055, args.spsolve_cap)
-    resolutions = ["draft", "normal"] + ([] if args.quick else ["fine"])
+    resolutions: list[Resolution] = ["draft", "normal"]
+    if not args.quick:
+        resolutions.append("fine")
     targets: list[tuple[str, str, bool]] = []
     print("Stresslens solver benchmark (errors in %, against exact solutions)")
     print("peak err: reported peak; top sample err: largest surface sample vs exact peak;")

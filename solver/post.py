@@ -147,22 +147,23 @@ def hot_spots(tr: SurfaceTrace) -> list[HotSpot]:
     if not over.any():
         return []
     n = len(over)
+    runs: list[tuple[int, int]] = []
     if over.all():
         runs = [(0, n - 1)]
     else:
         start = int(np.argmin(over))  # begin scanning at a sample below the limit
         idx = (np.arange(n) + start) % n
-        runs, cur = [], None
+        cur: list[int] | None = None
         for k in idx:
             if over[k] and cur is None:
-                cur = [k, k]
-            elif over[k]:
-                cur[1] = k
+                cur = [int(k), int(k)]
+            elif over[k] and cur is not None:
+                cur[1] = int(k)
             elif cur is not None:
-                runs.append(tuple(cur))
+                runs.append((cur[0], cur[1]))
                 cur = None
         if cur is not None:
-            runs.append(tuple(cur))
+            runs.append((cur[0], cur[1]))
     out = []
     for a, b in runs:
         members = np.arange(a, b + 1) if b >= a else np.r_[np.arange(a, n), np.arange(0, b + 1)]

@@ -77,7 +77,8 @@ def summarise(pl: PreparedLayout, volts: np.ndarray, u: np.ndarray, phi: np.ndar
 def _conductor_result(pl: PreparedLayout, k: int, traces: list[SurfaceTrace], v: float,
                       q: float, estimate: dict[str, float] | None) -> PartResult:
     part = pl.layout.parts[k]
-    best = (0.0, (np.nan, np.nan), None, -1)
+    best: tuple[float, tuple[float, float], SurfaceTrace | None, int] = (
+        0.0, (np.nan, np.nan), None, -1)
     for t in traces:
         if len(t.E_kV_per_mm) == 0:
             continue
@@ -139,7 +140,8 @@ def _dielectric_result(pl: PreparedLayout, k: int, sol: Solution,
         peak, at = float(emag.flat[m]), (float(xx.flat[m]), float(yy.flat[m]))
     else:
         peak, at = 0.0, (float("nan"), float("nan"))
-    traces, best = [], (0.0, None)
+    traces: list[SurfaceTrace] = []
+    best: tuple[float, tuple[float, float] | None, float] = (0.0, None, np.inf)
     for r, ring in enumerate(ol.rings):
         tr = _outside_trace(part.name, r, ring, sol, g, limit_fn)
         if tr is None:
