@@ -177,7 +177,8 @@ class ProfilePanel(QWidget):
         ax.set_ylabel("|E| at the surface (kV/mm)", color="black")
         top = max(float(np.max(t.E_kV_per_mm)) for t in traces)
         lim = max(float(np.max(t.limit_kV_per_mm)) for t in traces)
-        ax.set_ylim(0.0, 1.12 * max(top, min(lim, 3 * top)))
+        # with every electrode at one potential the field is zero: keep the limit line in view
+        ax.set_ylim(0.0, 1.12 * (max(top, min(lim, 3 * top)) or lim or 1.0))
         ax.set_xlim(0.0, max(float(t.s_mm[-1]) for t in traces))
         ax.legend(loc="best", fontsize=7, framealpha=0.8)
         limit_here = float(best.limit_kV_per_mm[k])
