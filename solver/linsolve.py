@@ -69,10 +69,6 @@ def single_threaded_blas(fn: F) -> F:
 _limited = threading.local()
 
 
-class SolveError(RuntimeError):
-    """The iterative solve did not reach its tolerance."""
-
-
 @dataclass
 class SolveInfo:
     """What one solve did: method, iterations, final relative residual."""

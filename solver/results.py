@@ -15,7 +15,7 @@ import shapely
 
 from .grid import smooth_on_axis, vertex_radius
 from .post import hot_spots, make_trace, sample, trace_peak
-from .solution import HotSpot, PartResult, Solution, SurfaceTrace
+from .solution import PartResult, Solution, SurfaceTrace
 from .surface import conductor_samples
 
 if TYPE_CHECKING:
@@ -187,5 +187,3 @@ def _outside_trace(name: str, r: int, ring: np.ndarray, sol: Solution, g, limit_
                         limit_kV_per_mm=limit_fn(radius, mid[ok], normal[ok]),
                         radius_mm=radius)
 
-
-__all__ = ["summarise", "HotSpot"]
